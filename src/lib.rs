@@ -1,0 +1,13 @@
+//! Knuckle compiles a declarative pressure-vessel case file into a traceable
+//! calculation package.
+//!
+//! The pipeline, one module a stage (see `DEVELOPERS.md` for the code map):
+//!
+//! | stage | type | module |
+//! |---|---|---|
+//! | case file text | [`case::CaseFile`] | [`case`] |
+//! | validated design | [`model::Design`] | [`model`] |
+//! | rules of a design code | [`calc::Calculation`] | [`rules`], [`calc`] |
+//! | figures | [`drawing::Drawing`] | [`drawing`] |
+
+pub mod drawing;

@@ -10,4 +10,16 @@
 //! | rules of a design code | [`calc::Calculation`] | [`rules`], [`calc`] |
 //! | figures | [`drawing::Drawing`] | [`drawing`] |
 
+pub mod calc;
+pub mod case;
+pub mod cautions;
+pub mod cli;
+pub mod diag;
 pub mod drawing;
+pub mod expr;
+pub mod fsio;
+pub mod model;
+pub mod pipeline;
+pub mod results;
+pub mod rules;
+pub mod units;

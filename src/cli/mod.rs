@@ -1,0 +1,67 @@
+//! The command line. Only this module touches the terminal, the process
+//! exit status and (through the subcommands) the file system.
+//!
+//! Exit status everywhere: 0 all checks pass, 1 a design is not acceptable
+//! (or a verification failed), 2 an input or usage error (nothing written).
+
+mod check;
+mod starter;
+
+use clap::{Parser, Subcommand};
+use std::ffi::OsString;
+use std::path::Path;
+
+/// Exit status: everything holds.
+pub const EXIT_OK: i32 = 0;
+/// Exit status: a design is not acceptable, or a verification failed.
+pub const EXIT_NOT_ACCEPTABLE: i32 = 1;
+/// Exit status: input or usage error; nothing computed or written.
+pub const EXIT_INPUT: i32 = 2;
+
+#[derive(Parser, Debug)]
+#[command(name = "knuckle", version, about = "Compiles pressure-vessel case files into traceable calculation packages", long_about = None)]
+struct Cli {
+    #[command(subcommand)]
+    command: Command,
+}
+
+#[derive(Subcommand, Debug)]
+enum Command {
+    /// Evaluate a case file and print the summary (or the results as JSON).
+    Check(check::CheckArgs),
+    /// Write a commented starter case file.
+    New {
+        /// Where to write the case file (must not exist).
+        path: std::path::PathBuf,
+    },
+    /// Print the JSON Schema of the case file.
+    Schema,
+}
+
+/// Runs the command line and returns the exit status.
+pub fn run(args: Vec<OsString>) -> i32 {
+    let cli = match Cli::try_parse_from(args) {
+        Ok(c) => c,
+        Err(e) => {
+            let code = if e.use_stderr() { EXIT_INPUT } else { EXIT_OK };
+            let _ = e.print();
+            return code;
+        }
+    };
+    match cli.command {
+        Command::Check(a) => check::run(&a),
+        Command::New { path } => starter::write_new(&path),
+        Command::Schema => {
+            println!("{}", starter::schema_text());
+            EXIT_OK
+        }
+    }
+}
+
+/// Reads a case file, or prints why not.
+pub(crate) fn read_case(path: &Path) -> Result<String, i32> {
+    std::fs::read_to_string(path).map_err(|e| {
+        eprintln!("error: cannot read case file `{}`: {e}", path.display());
+        EXIT_INPUT
+    })
+}

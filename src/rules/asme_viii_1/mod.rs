@@ -1,0 +1,390 @@
+//! ASME BPVC Section VIII Division 1, internal pressure.
+//!
+//! Each component is evaluated on its own [`Sheet`] in a fixed order:
+//! loads, allowances, corroded geometry, required thickness (with the
+//! thin/thick-wall switch of Appendix 1, 1-2 where it applies), minimum
+//! thickness, adequacy of the nominal thickness, MAWP hot and corroded, MAWP
+//! at the vessel top and MAP new and cold. The vessel sheet then takes the
+//! lowest MAWP and the test pressures of UG-99 and UG-100.
+
+pub mod cone;
+pub mod formulas;
+pub mod heads;
+pub mod shells;
+pub mod vessel;
+
+use crate::calc::{CalcError, Formula, Sheet};
+use crate::model::{Component, ComponentKind, Design, Diameter};
+use crate::rules::{Calculation, ComponentResult, RuleSet};
+use crate::units::{Kind, Quantity, UnitSystem, INCH, STANDARD_GRAVITY};
+use formulas as f;
+
+/// The rule set object.
+pub struct AsmeViii1;
+
+/// How the clause references are to be read.
+pub const CLAUSE_NOTE: &str = "Clause references follow the paragraph numbering of ASME BPVC Section VIII \
+Division 1 as arranged in the 2019 to 2023 editions; sub-paragraph letters are cited only where they have been \
+stable. Verify every reference against the edition in force for the job.";
+
+impl RuleSet for AsmeViii1 {
+    fn id(&self) -> &'static str {
+        "asme-viii-1"
+    }
+    fn title(&self) -> &'static str {
+        "ASME BPVC Section VIII Division 1, internal pressure"
+    }
+    fn formulas(&self) -> &'static [&'static Formula] {
+        f::ALL
+    }
+    fn evaluate(&self, design: &Design) -> Result<Calculation, CalcError> {
+        let components = design
+            .components
+            .iter()
+            .map(|c| evaluate_component(design, c))
+            .collect::<Result<Vec<_>, _>>()?;
+        let vessel = vessel::evaluate(design, &components)?;
+        Ok(Calculation {
+            rule_set: self.id().to_string(),
+            rule_set_title: self.title().to_string(),
+            edition: design.document.edition.clone(),
+            clause_note: CLAUSE_NOTE.to_string(),
+            components,
+            vessel,
+        })
+    }
+}
+
+/// Which condition a MAWP evaluation is for; only the words differ.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub enum Condition {
+    /// Design temperature, corrosion allowance removed.
+    HotCorroded,
+    /// Test temperature, no corrosion.
+    NewCold,
+}
+
+impl Condition {
+    /// Words appended to step descriptions.
+    pub fn words(self) -> &'static str {
+        match self {
+            Condition::HotCorroded => "hot and corroded",
+            Condition::NewCold => "new and cold",
+        }
+    }
+}
+
+/// The UG-16(b) floor: 1/16 in (1.5 mm) exclusive of corrosion allowance,
+/// in the value natural to the report's unit system.
+pub fn ug16_floor(units: UnitSystem) -> Quantity {
+    match units {
+        UnitSystem::Si => Quantity::mm(1.5),
+        UnitSystem::Us => Quantity::new(INCH / 16.0, Kind::Length),
+    }
+}
+
+fn len(v: f64) -> Quantity {
+    Quantity::new(v, Kind::Length)
+}
+
+/// Binds the corroded (or new) inside or outside dimensions of a component.
+pub fn bind_diameter(s: &mut Sheet, c: &Component, condition: Condition) -> Result<(), CalcError> {
+    match c.diameter {
+        Diameter::Inside(d) => {
+            s.input("D_n", "inside diameter, as given", d);
+            s.step(
+                &f::CORRODED_DIAMETER,
+                &format!("inside diameter, {}", condition.words()),
+            )?;
+            s.step(
+                &f::INSIDE_RADIUS,
+                &format!("inside radius, {}", condition.words()),
+            )?;
+        }
+        Diameter::Outside(d) => {
+            // The outside does not corrode: the allowance is taken off the thickness.
+            s.input("D_o", "outside diameter", d);
+            s.step(&f::OUTSIDE_RADIUS, "outside radius")?;
+        }
+    }
+    Ok(())
+}
+
+/// Evaluates one component.
+pub fn evaluate_component(design: &Design, c: &Component) -> Result<ComponentResult, CalcError> {
+    let u = design.units;
+    let mut s = Sheet::new(&c.id, u);
+    let material = design.material(c).ok_or_else(|| CalcError::OutOfRange {
+        component: c.id.clone(),
+        message: format!("material `{}` is not defined", c.material),
+    })?;
+    let mut limits = Vec::new();
+
+    // Loads.
+    s.input(
+        "P_d",
+        "design pressure at the vessel top",
+        design.conditions.pressure,
+    );
+    let static_head = match (design.conditions.liquid_density, c.liquid_head.value > 0.0) {
+        (Some(rho), true) => {
+            s.input("rho", "liquid density", rho);
+            s.input(
+                "g",
+                "standard gravity",
+                Quantity::new(STANDARD_GRAVITY, Kind::Acceleration),
+            );
+            s.input(
+                "h",
+                "liquid head at the component's lowest point",
+                c.liquid_head,
+            );
+            s.step(&f::STATIC_HEAD, "static head of the liquid")?
+        }
+        _ => s.input(
+            "P_s",
+            "static head (no liquid head given)",
+            Quantity::new(0.0, Kind::Pressure),
+        ),
+    };
+    let p = s.step(
+        &f::PRESSURE_AT_COMPONENT,
+        "design pressure at the component",
+    )?;
+
+    // Material, joint and allowances.
+    s.input(
+        "S",
+        &format!(
+            "allowable stress of {} at design temperature",
+            material.name
+        ),
+        material.allowable_stress,
+    );
+    s.input(
+        "E",
+        "joint efficiency",
+        Quantity::new(c.joint_efficiency, Kind::Dimensionless),
+    );
+    if matches!(c.kind, ComponentKind::Cylinder) {
+        s.input(
+            "E_c",
+            "joint efficiency of circumferential joints",
+            Quantity::new(c.circumferential_joint_efficiency, Kind::Dimensionless),
+        );
+    }
+    s.input("c", "corrosion allowance", c.corrosion_allowance);
+    let thinning_words = if c.kind.is_formed_head() {
+        "thinning allowance for forming"
+    } else {
+        "thinning allowance (none: not a formed head)"
+    };
+    s.input("t_th", thinning_words, c.thinning_allowance);
+    s.input(
+        "t_f",
+        "minimum thickness exclusive of corrosion allowance",
+        ug16_floor(u),
+    );
+
+    // Corroded geometry and required thickness.
+    bind_diameter(&mut s, c, Condition::HotCorroded)?;
+    let required = match &c.kind {
+        ComponentKind::Cylinder => Some(shells::cylinder_thickness(&mut s, c)?),
+        ComponentKind::Sphere | ComponentKind::HemisphericalHead => {
+            Some(shells::sphere_thickness(&mut s, c)?)
+        }
+        ComponentKind::EllipsoidalHead { aspect_ratio } => Some(heads::ellipsoidal_thickness(
+            &mut s,
+            c,
+            *aspect_ratio,
+            Condition::HotCorroded,
+        )?),
+        ComponentKind::TorisphericalHead {
+            crown_radius,
+            knuckle_radius,
+            ..
+        } => Some(heads::torispherical_thickness(
+            &mut s,
+            *crown_radius,
+            *knuckle_radius,
+            Condition::HotCorroded,
+        )?),
+        ComponentKind::ConicalSection {
+            half_apex_angle, ..
+        } => cone::thickness(&mut s, c, *half_apex_angle, &mut limits)?,
+    };
+    let Some(required) = required else {
+        // The rules do not apply (for example a cone steeper than 30°): no
+        // thickness or pressure is reported, and the failed applicability
+        // check already on the sheet says which rules are needed.
+        return Ok(finish(
+            c,
+            s,
+            None,
+            None,
+            p,
+            static_head,
+            None,
+            None,
+            None,
+            limits,
+        ));
+    };
+    if required.value <= 0.0 {
+        return Err(CalcError::OutOfRange {
+            component: c.id.clone(),
+            message: "the required thickness is not positive".into(),
+        });
+    }
+    s.bind("t_r", required);
+    let minimum = s.step(&f::MINIMUM_THICKNESS, "minimum thickness: the larger of the pressure thickness and the floor, plus corrosion and thinning allowances")?;
+
+    // Nominal thickness and its adequacy.
+    let nominal = match c.nominal_thickness {
+        Some(t) => {
+            s.input("t_n", "nominal thickness", t);
+            s.check_at_least(
+                "nominal thickness covers the minimum thickness",
+                "UG-16, UG-25, UG-27/UG-32",
+                minimum,
+                t,
+                "the nominal thickness is less than the minimum required; choose a thicker plate",
+            );
+            t
+        }
+        None => s.input(
+            "t_n",
+            "no nominal thickness given: the minimum thickness is used",
+            minimum,
+        ),
+    };
+
+    // MAWP hot and corroded, after the shape limits that use the same thickness.
+    s.step(
+        &f::AVAILABLE_THICKNESS,
+        "thickness available, hot and corroded",
+    )?;
+    heads::shape_limits(&mut s, c, nominal)?;
+    let mawp = component_mawp(&mut s, c, Condition::HotCorroded)?;
+    s.check_at_least(
+        "MAWP at the component covers the design pressure there",
+        "UG-98",
+        p,
+        mawp,
+        "the component cannot carry the design pressure plus static head",
+    );
+    let top = s.step(&f::MAWP_TOP, "MAWP referred to the vessel top")?;
+
+    // MAP new and cold: no corrosion allowance, allowable stress at test temperature.
+    s.input("c", "corrosion allowance, new condition", len(0.0));
+    s.input(
+        "S",
+        &format!("allowable stress of {} at test temperature", material.name),
+        material.test_allowable_stress,
+    );
+    bind_diameter(&mut s, c, Condition::NewCold)?;
+    s.step(&f::NEW_THICKNESS, "thickness available, new and cold")?;
+    let map = component_mawp(&mut s, c, Condition::NewCold)?;
+
+    Ok(finish(
+        c,
+        s,
+        Some(required),
+        Some(minimum),
+        p,
+        static_head,
+        Some(mawp),
+        Some(top),
+        Some(map),
+        limits,
+    ))
+}
+
+/// The MAWP of a component for the thickness bound to `t`.
+fn component_mawp(
+    s: &mut Sheet,
+    c: &Component,
+    condition: Condition,
+) -> Result<Quantity, CalcError> {
+    let q = match &c.kind {
+        ComponentKind::Cylinder => shells::cylinder_mawp(s, c, condition)?,
+        ComponentKind::Sphere | ComponentKind::HemisphericalHead => {
+            shells::sphere_mawp(s, c, condition)?
+        }
+        ComponentKind::EllipsoidalHead { .. } => heads::ellipsoidal_mawp(s, c, condition)?,
+        ComponentKind::TorisphericalHead {
+            crown_radius,
+            knuckle_radius,
+            ..
+        } => heads::torispherical_mawp(s, *crown_radius, *knuckle_radius, condition)?,
+        ComponentKind::ConicalSection { .. } => cone::mawp(s, c, condition)?,
+    };
+    if !(q.value > 0.0) {
+        return Err(CalcError::OutOfRange {
+            component: c.id.clone(),
+            message: format!(
+                "the MAWP {} is not positive; the thickness is too small for the formulas",
+                condition.words()
+            ),
+        });
+    }
+    Ok(q)
+}
+
+#[allow(clippy::too_many_arguments)]
+fn finish(
+    c: &Component,
+    s: Sheet,
+    required: Option<Quantity>,
+    minimum: Option<Quantity>,
+    p: Quantity,
+    static_head: Quantity,
+    mawp: Option<Quantity>,
+    top: Option<Quantity>,
+    map: Option<Quantity>,
+    limits: Vec<String>,
+) -> ComponentResult {
+    let acceptable = s.checks.iter().all(|k| k.pass);
+    ComponentResult {
+        id: c.id.clone(),
+        type_name: c.kind.type_name().to_string(),
+        description: describe(c),
+        steps: s.steps,
+        checks: s.checks,
+        required_thickness: required,
+        minimum_thickness: minimum,
+        nominal_thickness: c.nominal_thickness,
+        design_pressure: p,
+        static_head,
+        mawp,
+        mawp_top: top,
+        map,
+        limits,
+        acceptable,
+    }
+}
+
+/// A short description of the component's geometry.
+pub fn describe(c: &Component) -> String {
+    match &c.kind {
+        ComponentKind::Cylinder => "cylindrical shell".to_string(),
+        ComponentKind::Sphere => "spherical shell".to_string(),
+        ComponentKind::HemisphericalHead => "hemispherical head".to_string(),
+        ComponentKind::EllipsoidalHead { aspect_ratio } => format!(
+            "ellipsoidal head, D/2h = {}",
+            crate::expr::show_number(*aspect_ratio)
+        ),
+        ComponentKind::TorisphericalHead {
+            shape: Some(shape), ..
+        } => format!("torispherical head, {} shape", shape.name()),
+        ComponentKind::TorisphericalHead { .. } => "torispherical head".to_string(),
+        ComponentKind::ConicalSection {
+            half_apex_angle, ..
+        } => {
+            format!(
+                "conical section, half-apex angle {}",
+                UnitSystem::Si.display(*half_apex_angle)
+            )
+        }
+    }
+}

@@ -19,6 +19,7 @@ pub mod drawing;
 pub mod expr;
 pub mod fsio;
 pub mod model;
+pub mod package;
 pub mod pipeline;
 pub mod results;
 pub mod rules;

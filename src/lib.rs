@@ -7,7 +7,10 @@
 //! |---|---|---|
 //! | case file text | [`case::CaseFile`] | [`case`] |
 //! | validated design | [`model::Design`] | [`model`] |
-//! | rules of a design code | [`calc::Calculation`] | [`rules`], [`calc`] |
+//! | rules of a design code | [`rules::Calculation`] | [`rules`], [`calc`] |
+//! | results JSON | `serde_json::Value` | [`results`] |
+//! | package (digest, manifest) | [`package::Package`] | [`package`] |
+//! | Markdown, PDF, SVG | bytes | [`render`] |
 //! | figures | [`drawing::Drawing`] | [`drawing`] |
 
 pub mod calc;
@@ -21,6 +24,7 @@ pub mod fsio;
 pub mod model;
 pub mod package;
 pub mod pipeline;
+pub mod render;
 pub mod results;
 pub mod rules;
 pub mod units;

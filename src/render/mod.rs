@@ -1,0 +1,6 @@
+//! Output formats: the package as bytes.
+//!
+//! Renderers never compute engineering values; they only present what the
+//! earlier stages recorded.
+
+pub mod pdf;

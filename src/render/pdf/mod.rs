@@ -1,0 +1,334 @@
+//! Markdown to PDF, laid out by Knuckle itself.
+//!
+//! The PDF is produced from the same Markdown as the Markdown package, so the
+//! two can never say different things. No external program is involved: the
+//! Markdown is parsed with pulldown-cmark, laid out here with the metrics of
+//! the embedded DejaVu faces, and written with printpdf; lopdf then fixes the
+//! parts of the file that must not vary between runs.
+//!
+//! Stages, one file each:
+//!
+//! | stage | file |
+//! |---|---|
+//! | Markdown to blocks | `blocks.rs` |
+//! | faces, metrics, subsets | `fonts.rs` |
+//! | line breaking | `text.rs` |
+//! | flowing blocks onto pages | `layout.rs`, `table.rs`, `figure.rs` |
+//! | pages to PDF operations, header and footer | `paint.rs` |
+//! | document, metadata, file identity | this file |
+//!
+//! Invariant: the output depends only on the arguments. No clock, no random
+//! identifiers, no hash-map order: calling twice gives the same bytes.
+
+mod blocks;
+mod figure;
+mod fonts;
+mod layout;
+mod paint;
+mod table;
+mod text;
+
+use std::collections::BTreeMap;
+use std::fmt;
+
+use lopdf::{Object, StringFormat};
+use printpdf::{FontId, Mm, PdfDocument, PdfFont, PdfPage, PdfSaveOptions};
+use sha2::{Digest, Sha256};
+
+use crate::drawing::Drawing;
+use layout::{Geometry, Layouter};
+
+/// Paper size of the printed package.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub enum Paper {
+    /// ISO A4, 210 mm x 297 mm.
+    A4,
+    /// US Letter, 215.9 mm x 279.4 mm.
+    Letter,
+}
+
+impl Paper {
+    /// Width and height in millimetres.
+    pub fn size_mm(self) -> (f32, f32) {
+        match self {
+            Paper::A4 => (210.0, 297.0),
+            Paper::Letter => (215.9, 279.4),
+        }
+    }
+}
+
+/// The document information written into the PDF.
+#[derive(Debug, Clone, PartialEq, Eq)]
+pub struct PdfMetadata {
+    /// Document title.
+    pub title: String,
+    /// Author (the engineer of record or the organisation).
+    pub author: String,
+    /// Subject line.
+    pub subject: String,
+    /// Keywords, written comma-separated.
+    pub keywords: Vec<String>,
+    /// Date of the document as ISO `YYYY-MM-DD`; used as creation and
+    /// modification date (at 00:00:00 UTC). The clock is never read.
+    pub date: String,
+}
+
+/// Everything besides the Markdown and the figures that goes into the PDF.
+#[derive(Debug, Clone, PartialEq, Eq)]
+pub struct PdfOptions {
+    /// Paper size.
+    pub paper: Paper,
+    /// Left part of the running header, e.g. document number and title.
+    pub header_left: String,
+    /// Right part of the running header, e.g. "Revision B".
+    pub header_right: String,
+    /// Left part of the running footer, e.g. "Digest 1a2b3c4d5e6f"; the right
+    /// part is always "Page N of M".
+    pub footer_left: String,
+    /// Document information.
+    pub metadata: PdfMetadata,
+    /// Identity of the package (its digest, in hex); the file identifier in
+    /// the PDF trailer is derived from it, so that it is stable.
+    pub document_id: String,
+}
+
+/// Why a PDF could not be produced.
+#[derive(Debug, Clone, PartialEq, Eq)]
+pub enum PdfError {
+    /// The Markdown shows a figure (`![caption](name)`) that was not supplied.
+    UnknownFigure {
+        /// The name used in the Markdown.
+        name: String,
+    },
+    /// A supplied figure cannot be drawn.
+    InvalidFigure {
+        /// The figure's name.
+        name: String,
+        /// What is wrong with it.
+        reason: String,
+    },
+    /// An embedded font could not be read or subset.
+    Font {
+        /// The face concerned.
+        face: String,
+        /// What went wrong.
+        message: String,
+    },
+    /// The metadata date is not a valid `YYYY-MM-DD` date.
+    InvalidDate {
+        /// The date as given.
+        date: String,
+    },
+    /// The finished document could not be written out.
+    Write {
+        /// What went wrong.
+        message: String,
+    },
+}
+
+impl fmt::Display for PdfError {
+    fn fmt(&self, f: &mut fmt::Formatter<'_>) -> fmt::Result {
+        match self {
+            PdfError::UnknownFigure { name } => write!(
+                f,
+                "the document shows figure `{name}`, but no figure of that name was supplied"
+            ),
+            PdfError::InvalidFigure { name, reason } => {
+                write!(f, "figure `{name}` cannot be drawn: {reason}")
+            }
+            PdfError::Font { face, message } => write!(f, "font {face}: {message}"),
+            PdfError::InvalidDate { date } => write!(
+                f,
+                "document date `{date}` is not a valid calendar date of the form YYYY-MM-DD"
+            ),
+            PdfError::Write { message } => write!(f, "cannot write the PDF: {message}"),
+        }
+    }
+}
+
+impl std::error::Error for PdfError {}
+
+/// Parses an ISO `YYYY-MM-DD` date into a PDF date string at 00:00:00 UTC.
+fn pdf_date(date: &str) -> Result<String, PdfError> {
+    let bad = || PdfError::InvalidDate {
+        date: date.to_string(),
+    };
+    let b = date.as_bytes();
+    if b.len() != 10 || b[4] != b'-' || b[7] != b'-' {
+        return Err(bad());
+    }
+    let num = |r: std::ops::Range<usize>| -> Result<u32, PdfError> {
+        let s = date.get(r).ok_or_else(bad)?;
+        if !s.bytes().all(|c| c.is_ascii_digit()) {
+            return Err(bad());
+        }
+        s.parse().map_err(|_| bad())
+    };
+    let (y, m, d) = (num(0..4)?, num(5..7)?, num(8..10)?);
+    let leap = (y % 4 == 0 && y % 100 != 0) || y % 400 == 0;
+    let days = match m {
+        1 | 3 | 5 | 7 | 8 | 10 | 12 => 31,
+        4 | 6 | 9 | 11 => 30,
+        2 if leap => 29,
+        2 => 28,
+        _ => return Err(bad()),
+    };
+    if d == 0 || d > days {
+        return Err(bad());
+    }
+    Ok(format!("D:{y:04}{m:02}{d:02}000000+00'00'"))
+}
+
+/// A PDF text string: literal when plain ASCII, else UTF-16BE with a byte
+/// order mark (ISO 32000-1, 7.9.2.2), so that any title survives.
+fn text_string(s: &str) -> Object {
+    if s.bytes().all(|b| (0x20..0x7f).contains(&b)) {
+        Object::String(s.as_bytes().to_vec(), StringFormat::Literal)
+    } else {
+        let mut bytes = vec![0xFE, 0xFF];
+        for unit in s.encode_utf16() {
+            bytes.extend_from_slice(&unit.to_be_bytes());
+        }
+        Object::String(bytes, StringFormat::Hexadecimal)
+    }
+}
+
+/// Replaces printpdf's document information and trailer identifier by ours:
+/// only the fields we mean (no empty PDF/X version entry, which would make
+/// readers take the file for PDF/X), dates from the document, and an `/ID`
+/// derived from the package digest instead of a per-call counter.
+fn finish_document(doc: &mut lopdf::Document, options: &PdfOptions) -> Result<(), PdfError> {
+    let date = pdf_date(&options.metadata.date)?;
+    let meta = &options.metadata;
+    let mut info = lopdf::Dictionary::new();
+    info.set("Title", text_string(&meta.title));
+    info.set("Author", text_string(&meta.author));
+    info.set("Subject", text_string(&meta.subject));
+    info.set("Keywords", text_string(&meta.keywords.join(", ")));
+    info.set("Creator", text_string("Knuckle"));
+    info.set(
+        "Producer",
+        text_string(concat!("Knuckle ", env!("CARGO_PKG_VERSION"))),
+    );
+    info.set("CreationDate", text_string(&date));
+    info.set("ModDate", text_string(&date));
+    match doc.trailer.get(b"Info").and_then(Object::as_reference) {
+        Ok(id) => {
+            doc.objects.insert(id, Object::Dictionary(info));
+        }
+        Err(_) => {
+            let id = doc.add_object(Object::Dictionary(info));
+            doc.trailer.set("Info", Object::Reference(id));
+        }
+    }
+
+    let digest = Sha256::digest(format!("knuckle-pdf-id:{}", options.document_id).as_bytes());
+    let id = digest[..16].to_vec();
+    doc.trailer.set(
+        "ID",
+        Object::Array(vec![
+            Object::String(id.clone(), StringFormat::Hexadecimal),
+            Object::String(id, StringFormat::Hexadecimal),
+        ]),
+    );
+    Ok(())
+}
+
+/// Lays out `markdown` (CommonMark with GFM tables) as a paged PDF.
+///
+/// Figures are written `![caption](name)` and looked up by `name` in
+/// `figures`; `<!-- page-break -->` on a line of its own starts a new page.
+/// Every page carries the running header and footer of `options`. The result
+/// depends only on the arguments.
+pub fn markdown_to_pdf(
+    markdown: &str,
+    figures: &BTreeMap<String, Drawing>,
+    options: &PdfOptions,
+) -> Result<Vec<u8>, PdfError> {
+    // Checked first so that a bad date fails fast, before any layout work.
+    pdf_date(&options.metadata.date)?;
+    let faces = fonts::faces()?;
+    let geo = Geometry::for_paper(options.paper);
+    let blocks = blocks::parse(markdown);
+    let mut flow = Layouter::new(faces, figures, geo);
+    flow.blocks(&blocks, geo.left, geo.text_width())?;
+    let pages = flow.finish();
+    let (page_ops, used) = paint::paint(faces, &pages, &geo, options);
+
+    let mut doc = PdfDocument::new(&options.metadata.title);
+    for (face, chars) in used.iter() {
+        let font = fonts::subset(faces, face, chars)?;
+        // Resource names are fixed per face: printpdf's own ids come from a
+        // counter and would differ between two calls in one process.
+        doc.resources
+            .fonts
+            .map
+            .insert(FontId(face.resource_name().to_string()), PdfFont::new(font));
+    }
+    let (w, h) = options.paper.size_mm();
+    doc.pages = page_ops
+        .into_iter()
+        .map(|ops| PdfPage::new(Mm(w), Mm(h), ops))
+        .collect();
+
+    let save = PdfSaveOptions {
+        optimize: false,
+        // The fonts are subset above already.
+        subset_fonts: false,
+        secure: true,
+        image_optimization: None,
+    };
+    let mut warnings = Vec::new();
+    let mut lo = doc.to_lopdf_document(&save, &mut warnings);
+    finish_document(&mut lo, options)?;
+    lo.compress();
+    let mut out = Vec::new();
+    lo.save_to(&mut out).map_err(|e| PdfError::Write {
+        message: e.to_string(),
+    })?;
+    Ok(out)
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn dates_are_checked_and_converted() {
+        assert_eq!(
+            pdf_date("2024-02-29").as_deref(),
+            Ok("D:20240229000000+00'00'")
+        );
+        // 2023 is not a leap year (Gregorian calendar rule).
+        assert!(pdf_date("2023-02-29").is_err());
+        assert!(pdf_date("2024-13-01").is_err());
+        assert!(pdf_date("2024-1-01").is_err());
+        assert!(pdf_date("２０２４-01-01").is_err());
+        assert!(pdf_date("").is_err());
+    }
+
+    #[test]
+    fn text_strings_are_utf16_when_not_ascii() {
+        assert_eq!(
+            text_string("Rev B"),
+            Object::String(b"Rev B".to_vec(), StringFormat::Literal)
+        );
+        let Object::String(bytes, StringFormat::Hexadecimal) = text_string("σ") else {
+            panic!("not hex");
+        };
+        // U+03C3 GREEK SMALL LETTER SIGMA in UTF-16BE after the byte order mark.
+        assert_eq!(bytes, vec![0xFE, 0xFF, 0x03, 0xC3]);
+    }
+
+    #[test]
+    fn errors_name_what_was_wrong() {
+        let e = PdfError::UnknownFigure {
+            name: "head-profile".into(),
+        };
+        assert!(e.to_string().contains("head-profile"));
+        let e = PdfError::InvalidDate {
+            date: "yesterday".into(),
+        };
+        assert!(e.to_string().contains("yesterday"));
+    }
+}

@@ -5,7 +5,9 @@
 //! (or a verification failed), 2 an input or usage error (nothing written).
 
 mod check;
+pub mod compile;
 mod starter;
+pub mod verify;
 
 use clap::{Parser, Subcommand};
 use std::ffi::OsString;
@@ -29,6 +31,10 @@ struct Cli {
 enum Command {
     /// Evaluate a case file and print the summary (or the results as JSON).
     Check(check::CheckArgs),
+    /// Compile case files into calculation packages (Markdown, PDF, JSON, manifest).
+    Compile(compile::CompileArgs),
+    /// Check that a package's files are as compiled (and, with --case, that it recompiles the same).
+    Verify(verify::VerifyArgs),
     /// Write a commented starter case file.
     New {
         /// Where to write the case file (must not exist).
@@ -50,6 +56,8 @@ pub fn run(args: Vec<OsString>) -> i32 {
     };
     match cli.command {
         Command::Check(a) => check::run(&a),
+        Command::Compile(a) => compile::run(&a),
+        Command::Verify(a) => verify::run(&a),
         Command::New { path } => starter::write_new(&path),
         Command::Schema => {
             println!("{}", starter::schema_text());

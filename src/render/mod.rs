@@ -4,3 +4,5 @@
 //! earlier stages recorded.
 
 pub mod pdf;
+pub mod context;
+pub mod templates;

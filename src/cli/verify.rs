@@ -1,0 +1,150 @@
+//! `knuckle verify DIR [--case CASE]`: re-hash every file of every package
+//! in DIR against its manifest; with `--case`, recompile in memory and
+//! confirm the digest and the results.
+
+use super::{EXIT_INPUT, EXIT_NOT_ACCEPTABLE, EXIT_OK};
+use crate::package::manifest::{check_files, find_manifests, FileState, Manifest};
+use crate::package::{self, Options};
+use crate::render::templates::TemplateSet;
+use std::path::{Path, PathBuf};
+
+/// Arguments of `verify`.
+#[derive(clap::Args, Debug)]
+pub struct VerifyArgs {
+    /// The package folder.
+    pub dir: PathBuf,
+    /// The case file: recompile it and confirm the digest and results match.
+    #[arg(long)]
+    pub case: Option<PathBuf>,
+    /// Template folder the package was compiled with, if not the built-in one.
+    #[arg(long)]
+    pub templates: Option<PathBuf>,
+}
+
+/// The verification of one manifest, in plain words.
+pub struct Report {
+    /// Lines of the report.
+    pub lines: Vec<String>,
+    /// Everything holds.
+    pub ok: bool,
+}
+
+/// Verifies one manifest's files.
+pub fn verify_manifest(dir: &Path, manifest_path: &Path) -> Result<(Manifest, Report), String> {
+    let text = std::fs::read_to_string(manifest_path).map_err(|e| format!("cannot read `{}`: {e}", manifest_path.display()))?;
+    let m = Manifest::from_json(&text).map_err(|e| format!("{}: {e}", manifest_path.display()))?;
+    let mut lines = vec![format!(
+        "Package {} revision {} (digest {}), status {}",
+        m.document.number, m.document.revision, m.digest, m.status
+    )];
+    let mut ok = true;
+    for (f, state) in check_files(dir, &m) {
+        let words = match state {
+            FileState::Intact => "intact",
+            FileState::Changed => {
+                ok = false;
+                "CHANGED since it was compiled"
+            }
+            FileState::Missing => {
+                ok = false;
+                "MISSING"
+            }
+        };
+        lines.push(format!("  {:<48} {words}", f.name));
+    }
+    Ok((m, Report { lines, ok }))
+}
+
+/// Runs `verify`.
+pub fn run(a: &VerifyArgs) -> i32 {
+    let manifests = match find_manifests(&a.dir) {
+        Ok(m) => m,
+        Err(e) => {
+            eprintln!("error: cannot read the package folder `{}`: {e}", a.dir.display());
+            return EXIT_INPUT;
+        }
+    };
+    if manifests.is_empty() {
+        eprintln!("error: no package manifest (*.manifest.json) in `{}`", a.dir.display());
+        return EXIT_NOT_ACCEPTABLE;
+    }
+    let recompiled = match &a.case {
+        None => None,
+        Some(case) => {
+            let source = match super::read_case(case) {
+                Ok(s) => s,
+                Err(code) => return code,
+            };
+            let ev = match crate::pipeline::evaluate(&case.display().to_string(), &source) {
+                Ok(ev) => ev,
+                Err(e) => {
+                    eprint!("{}", e.render());
+                    return EXIT_INPUT;
+                }
+            };
+            let templates = match &a.templates {
+                Some(d) => match TemplateSet::with_overrides(d) {
+                    Ok(t) => t,
+                    Err(e) => {
+                        eprintln!("error: {e}");
+                        return EXIT_INPUT;
+                    }
+                },
+                None => TemplateSet::default(),
+            };
+            let opts = Options { formats: package::Formats { md: true, pdf: false, json: true }, ..Options::default() };
+            match package::compile(&ev, &templates, &super::compile::additions_for(&ev), &opts) {
+                Ok(p) => Some(p),
+                Err(e) => {
+                    eprintln!("error: {e}");
+                    return EXIT_INPUT;
+                }
+            }
+        }
+    };
+    let mut all_ok = true;
+    let mut matched_case = recompiled.is_none();
+    for mp in &manifests {
+        match verify_manifest(&a.dir, mp) {
+            Err(e) => {
+                println!("{e}");
+                all_ok = false;
+            }
+            Ok((m, report)) => {
+                for l in &report.lines {
+                    println!("{l}");
+                }
+                all_ok &= report.ok;
+                if let Some(p) = &recompiled {
+                    if p.stem == m.stem() {
+                        matched_case = true;
+                        let same_digest = p.digest == m.digest;
+                        println!(
+                            "  recompiled from the case file: digest {}",
+                            if same_digest { "matches" } else { "DIFFERS (the case, the templates or the tool version changed)" }
+                        );
+                        for (name, bytes) in &p.files {
+                            if let Some(entry) = m.files.iter().find(|f| &f.name == name) {
+                                let same = crate::package::manifest::sha256_hex(bytes) == entry.sha256;
+                                println!("  recompiled {name:<37} {}", if same { "matches" } else { "DIFFERS" });
+                                all_ok &= same;
+                            }
+                        }
+                        all_ok &= same_digest;
+                    }
+                }
+                println!("  verdict: {}", if report.ok { "every file is as compiled" } else { "the package has been altered or is incomplete" });
+            }
+        }
+    }
+    if !matched_case {
+        println!("the case file's package is not in this folder");
+        all_ok = false;
+    }
+    println!("{}", if all_ok { "VERIFIED" } else { "NOT VERIFIED" });
+    if all_ok {
+        EXIT_OK
+    } else {
+        EXIT_NOT_ACCEPTABLE
+    }
+}

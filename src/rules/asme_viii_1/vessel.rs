@@ -41,9 +41,13 @@ pub fn evaluate(
     let words = if gov_id.is_empty() {
         "vessel MAWP at the top: no component has a MAWP".to_string()
     } else {
-        format!("vessel MAWP at the top: the lowest component MAWP referred to the top, governed by `{gov_id}`")
+        format!("vessel MAWP at the top, governed by {gov_id}")
     };
-    s.input("P_v", &words, mawp);
+    let compared: Vec<String> = components
+        .iter()
+        .filter_map(|c| c.mawp_top.map(|q| format!("{} {}", c.id, design.units.display(q))))
+        .collect();
+    s.derived("P_v", &words, "UG-98", "min(Ptop of every component)", &format!("min({})", compared.join("; ")), mawp);
     s.check_at_least(
         "vessel MAWP covers the design pressure",
         "UG-98",
@@ -72,6 +76,7 @@ pub fn evaluate(
     used.sort();
     used.dedup();
     let mut lowest: Option<(f64, &str)> = None;
+    let mut ratios = Vec::new();
     for key in used {
         let Some(m) = design.materials.get(key) else {
             continue;
@@ -87,6 +92,7 @@ pub fn evaluate(
             m.allowable_stress,
         );
         let r = s.step(&f::STRESS_RATIO, &format!("stress ratio of {}", m.name))?;
+        ratios.push(format!("{} {}", key, crate::units::format_number(r.value, 6)));
         if lowest.is_none_or(|(v, _)| r.value < v) {
             lowest = Some((r.value, key));
         }

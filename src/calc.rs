@@ -166,7 +166,15 @@ impl Sheet {
     /// Records a value chosen from earlier results (a minimum over
     /// components, say) with the rule of choice written out in `formula` and
     /// the values compared in `substituted`.
-    pub fn derived(&mut self, symbol: &str, description: &str, clause: &str, formula: &str, substituted: &str, q: Quantity) -> Quantity {
+    pub fn derived(
+        &mut self,
+        symbol: &str,
+        description: &str,
+        clause: &str,
+        formula: &str,
+        substituted: &str,
+        q: Quantity,
+    ) -> Quantity {
         self.env.insert(symbol.to_string(), q);
         let shown = expr::display_symbol(symbol);
         self.steps.push(Step {

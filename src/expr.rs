@@ -334,11 +334,11 @@ impl Expr {
                     }
                     Op::Mul => DimValue {
                         value: x.value * y.value,
-                        dim: x.dim.mul(y.dim),
+                        dim: x.dim.times(y.dim),
                     },
                     Op::Div => DimValue {
                         value: x.value / y.value,
-                        dim: x.dim.div(y.dim),
+                        dim: x.dim.per(y.dim),
                     },
                     Op::Pow => {
                         let n = y.value;

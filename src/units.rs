@@ -56,7 +56,7 @@ impl Dim {
         }
     }
     /// Product of two dimensions.
-    pub fn mul(self, o: Dim) -> Dim {
+    pub fn times(self, o: Dim) -> Dim {
         Dim::new(
             self.mass + o.mass,
             self.length + o.length,
@@ -65,7 +65,7 @@ impl Dim {
         )
     }
     /// Quotient of two dimensions.
-    pub fn div(self, o: Dim) -> Dim {
+    pub fn per(self, o: Dim) -> Dim {
         Dim::new(
             self.mass - o.mass,
             self.length - o.length,

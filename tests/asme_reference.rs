@@ -1,8 +1,8 @@
 //! ASME VIII-1 internal-pressure rules against independent values. The
 //! source of every check value is named beside it.
 
-use knuckle::pipeline::evaluate;
 use knuckle::calc::Sheet;
+use knuckle::pipeline::evaluate;
 use knuckle::rules::asme_viii_1::formulas;
 use knuckle::rules::ComponentResult;
 use knuckle::units::{Quantity, UnitSystem};
@@ -47,8 +47,18 @@ fn handbook_cylinder_example_100_psi_48_in_radius() {
     // Published pressure-vessel handbook worked example, from memory: P = 100 psi,
     // inside radius 48 in, S = 17,500 psi, E = 0.85, corrosion allowance 0.125 in
     // gives t = 0.325 in before the corrosion allowance is added.
-    let c = run(&case("US", "100 psi", "17500 psi", "0.125 in", "type = \"cylinder\"\ninside_diameter = \"96 in\"\njoint_efficiency = 0.85"));
-    assert!((inch(c.required_thickness) - 0.325).abs() < 0.001, "{}", inch(c.required_thickness));
+    let c = run(&case(
+        "US",
+        "100 psi",
+        "17500 psi",
+        "0.125 in",
+        "type = \"cylinder\"\ninside_diameter = \"96 in\"\njoint_efficiency = 0.85",
+    ));
+    assert!(
+        (inch(c.required_thickness) - 0.325).abs() < 0.001,
+        "{}",
+        inch(c.required_thickness)
+    );
     assert!((inch(c.minimum_thickness) - 0.450).abs() < 0.001);
 }
 
@@ -68,7 +78,13 @@ fn outside_radius_cylinder_matches_appendix_1_1() {
     // Appendix 1, 1-1: t = P·Ro/(S·E + 0.4·P). Ro = 508 mm, P = 2 MPa, S·E = 120 MPa:
     // t = 1016/120.8 = 8.410596 mm (hand arithmetic). Same as the inside-radius
     // formula with R = Ro − t (algebraic identity).
-    let c = run(&case("SI", "2 MPa", "120 MPa", "0 mm", "type = \"cylinder\"\noutside_diameter = \"1016 mm\"\njoint_efficiency = 1.0"));
+    let c = run(&case(
+        "SI",
+        "2 MPa",
+        "120 MPa",
+        "0 mm",
+        "type = \"cylinder\"\noutside_diameter = \"1016 mm\"\njoint_efficiency = 1.0",
+    ));
     let t = mm(c.required_thickness);
     assert!((t - 1016.0 / 120.8).abs() < 1e-9, "{t}");
     let r = 508.0 - t;
@@ -80,7 +96,13 @@ fn thick_cylinder_meets_the_lame_bore_stress() {
     // Above P = 0.385·S·E, Appendix 1, 1-2 applies. Lamé (any elasticity handbook):
     // hoop stress at the bore = P·(Ro² + R²)/(Ro² − R²) must equal S·E at the
     // required thickness.
-    let c = run(&case("SI", "60 MPa", "138 MPa", "0 mm", "type = \"cylinder\"\ninside_diameter = \"400 mm\"\njoint_efficiency = 1.0"));
+    let c = run(&case(
+        "SI",
+        "60 MPa",
+        "138 MPa",
+        "0 mm",
+        "type = \"cylinder\"\ninside_diameter = \"400 mm\"\njoint_efficiency = 1.0",
+    ));
     let t = mm(c.required_thickness);
     let (r, ro) = (200.0, 200.0 + t);
     let hoop = 60.0 * (ro * ro + r * r) / (ro * ro - r * r);
@@ -93,7 +115,13 @@ fn sphere_and_hemispherical_head_by_hand() {
     // UG-27(d): t = P·R/(2·S·E − 0.2·P): P = 1 MPa, R = 1000 mm, S·E = 138 MPa
     // → 1000/275.8 = 3.625816 mm (hand arithmetic).
     for kind in ["sphere", "hemispherical-head"] {
-        let c = run(&case("SI", "1 MPa", "138 MPa", "0 mm", &format!("type = \"{kind}\"\ninside_diameter = \"2000 mm\"\njoint_efficiency = 1.0")));
+        let c = run(&case(
+            "SI",
+            "1 MPa",
+            "138 MPa",
+            "0 mm",
+            &format!("type = \"{kind}\"\ninside_diameter = \"2000 mm\"\njoint_efficiency = 1.0"),
+        ));
         assert!((mm(c.required_thickness) - 1000.0 / 275.8).abs() < 1e-9);
     }
 }
@@ -102,7 +130,13 @@ fn sphere_and_hemispherical_head_by_hand() {
 fn thick_sphere_meets_the_lame_bore_stress() {
     // Thick sphere (Lamé, elasticity handbook): bore stress
     // P·(Ro³ + 2R³)/(2(Ro³ − R³)) = S·E at the 1-2 thickness.
-    let c = run(&case("SI", "100 MPa", "138 MPa", "0 mm", "type = \"sphere\"\ninside_diameter = \"400 mm\"\njoint_efficiency = 1.0"));
+    let c = run(&case(
+        "SI",
+        "100 MPa",
+        "138 MPa",
+        "0 mm",
+        "type = \"sphere\"\ninside_diameter = \"400 mm\"\njoint_efficiency = 1.0",
+    ));
     let t = mm(c.required_thickness);
     let (r3, ro3) = (200f64.powi(3), (200.0 + t).powi(3));
     let s = 100.0 * (ro3 + 2.0 * r3) / (2.0 * (ro3 - r3));
@@ -113,8 +147,20 @@ fn thick_sphere_meets_the_lame_bore_stress() {
 fn two_to_one_head_needs_about_the_shell_thickness() {
     // Common practice, no source: a 2:1 ellipsoidal head needs close to the
     // thickness of its cylinder at the same P, S, E and D (within about 1 %).
-    let shell = run(&case("SI", "1 MPa", "138 MPa", "0 mm", "type = \"cylinder\"\ninside_diameter = \"2000 mm\"\njoint_efficiency = 1.0"));
-    let head = run(&case("SI", "1 MPa", "138 MPa", "0 mm", "type = \"ellipsoidal-head\"\ninside_diameter = \"2000 mm\"\njoint_efficiency = 1.0"));
+    let shell = run(&case(
+        "SI",
+        "1 MPa",
+        "138 MPa",
+        "0 mm",
+        "type = \"cylinder\"\ninside_diameter = \"2000 mm\"\njoint_efficiency = 1.0",
+    ));
+    let head = run(&case(
+        "SI",
+        "1 MPa",
+        "138 MPa",
+        "0 mm",
+        "type = \"ellipsoidal-head\"\ninside_diameter = \"2000 mm\"\njoint_efficiency = 1.0",
+    ));
     let ratio = mm(head.required_thickness) / mm(shell.required_thickness);
     assert!((ratio - 1.0).abs() < 0.01, "{ratio}");
 }
@@ -136,14 +182,41 @@ fn ellipsoidal_k_factor_matches_table_1_4_1() {
     // Appendix 1, Table 1-4.1 (values from memory; K = (2 + (D/2h)²)/6 is printed
     // in 1-4(c)); the table gives two decimals.
     let table = [
-        (3.0, 1.83), (2.9, 1.73), (2.8, 1.64), (2.7, 1.55), (2.6, 1.46), (2.5, 1.37), (2.4, 1.29), (2.3, 1.21),
-        (2.2, 1.14), (2.1, 1.07), (2.0, 1.00), (1.9, 0.93), (1.8, 0.87), (1.7, 0.81), (1.6, 0.76), (1.5, 0.71),
-        (1.4, 0.66), (1.3, 0.61), (1.2, 0.57), (1.1, 0.53), (1.0, 0.50),
+        (3.0, 1.83),
+        (2.9, 1.73),
+        (2.8, 1.64),
+        (2.7, 1.55),
+        (2.6, 1.46),
+        (2.5, 1.37),
+        (2.4, 1.29),
+        (2.3, 1.21),
+        (2.2, 1.14),
+        (2.1, 1.07),
+        (2.0, 1.00),
+        (1.9, 0.93),
+        (1.8, 0.87),
+        (1.7, 0.81),
+        (1.6, 0.76),
+        (1.5, 0.71),
+        (1.4, 0.66),
+        (1.3, 0.61),
+        (1.2, 0.57),
+        (1.1, 0.53),
+        (1.0, 0.50),
     ];
     for (a, k_table) in table {
         let c = run(&case("SI", "1 MPa", "138 MPa", "0 mm", &format!("type = \"ellipsoidal-head\"\ninside_diameter = \"2000 mm\"\naspect_ratio = {a}\njoint_efficiency = 1.0")));
-        let k = c.steps.iter().find(|s| s.symbol == "K").unwrap().quantity.value;
-        assert!((k - k_table).abs() <= 0.0051, "D/2h = {a}: K = {k}, table {k_table}");
+        let k = c
+            .steps
+            .iter()
+            .find(|s| s.symbol == "K")
+            .unwrap()
+            .quantity
+            .value;
+        assert!(
+            (k - k_table).abs() <= 0.0051,
+            "D/2h = {a}: K = {k}, table {k_table}"
+        );
     }
 }
 
@@ -152,11 +225,39 @@ fn torispherical_m_factor_matches_table_1_4_2() {
     // Appendix 1, Table 1-4.2 (values from memory; M = (3 + √(L/r))/4 is printed
     // in 1-4(d)); two decimals, some entries rounded up, hence 0.006.
     let table = [
-        (1.0, 1.00), (1.25, 1.03), (1.5, 1.06), (1.75, 1.08), (2.0, 1.10), (2.25, 1.13), (2.5, 1.15), (2.75, 1.17),
-        (3.0, 1.18), (3.25, 1.20), (3.5, 1.22), (4.0, 1.25), (4.5, 1.28), (5.0, 1.31), (5.5, 1.34), (6.0, 1.36),
-        (6.5, 1.39), (7.0, 1.41), (7.5, 1.44), (8.0, 1.46), (8.5, 1.48), (9.0, 1.50), (9.5, 1.52), (10.0, 1.54),
-        (10.5, 1.56), (11.0, 1.58), (11.5, 1.60), (12.0, 1.62), (13.0, 1.65), (14.0, 1.69), (15.0, 1.72),
-        (16.0, 1.75), (50.0f64 / 3.0, 1.77),
+        (1.0, 1.00),
+        (1.25, 1.03),
+        (1.5, 1.06),
+        (1.75, 1.08),
+        (2.0, 1.10),
+        (2.25, 1.13),
+        (2.5, 1.15),
+        (2.75, 1.17),
+        (3.0, 1.18),
+        (3.25, 1.20),
+        (3.5, 1.22),
+        (4.0, 1.25),
+        (4.5, 1.28),
+        (5.0, 1.31),
+        (5.5, 1.34),
+        (6.0, 1.36),
+        (6.5, 1.39),
+        (7.0, 1.41),
+        (7.5, 1.44),
+        (8.0, 1.46),
+        (8.5, 1.48),
+        (9.0, 1.50),
+        (9.5, 1.52),
+        (10.0, 1.54),
+        (10.5, 1.56),
+        (11.0, 1.58),
+        (11.5, 1.60),
+        (12.0, 1.62),
+        (13.0, 1.65),
+        (14.0, 1.69),
+        (15.0, 1.72),
+        (16.0, 1.75),
+        (50.0f64 / 3.0, 1.77),
     ];
     for (ratio, m_table) in table {
         // The formula definition itself, evaluated on a sheet as the rules do.
@@ -164,7 +265,10 @@ fn torispherical_m_factor_matches_table_1_4_2() {
         sheet.input("L", "crown radius", Quantity::mm(1800.0));
         sheet.input("r", "knuckle radius", Quantity::mm(1800.0 / ratio));
         let m = sheet.step(&formulas::TORI_M, "M").unwrap().value;
-        assert!((m - m_table).abs() <= 0.006, "L/r = {ratio}: M = {m}, table {m_table}");
+        assert!(
+            (m - m_table).abs() <= 0.006,
+            "L/r = {ratio}: M = {m}, table {m_table}"
+        );
     }
 }
 
@@ -173,7 +277,13 @@ fn two_to_one_equivalent_torisphere_needs_about_the_ellipsoid_thickness() {
     // Common practice, no source: the 0.9 D / 0.17 D torisphere is the accepted
     // stand-in for a 2:1 ellipse; its M at L/r = 5.29 is 1.325, so it needs
     // 0.9·1.325/2 ≈ 0.596 of P·D/(2SE − 0.2P)·2, i.e. about 19 % more than the ellipse.
-    let e = run(&case("SI", "1 MPa", "138 MPa", "0 mm", "type = \"ellipsoidal-head\"\ninside_diameter = \"2000 mm\"\njoint_efficiency = 1.0"));
+    let e = run(&case(
+        "SI",
+        "1 MPa",
+        "138 MPa",
+        "0 mm",
+        "type = \"ellipsoidal-head\"\ninside_diameter = \"2000 mm\"\njoint_efficiency = 1.0",
+    ));
     let t = run(&case("SI", "1 MPa", "138 MPa", "0 mm", "type = \"torispherical-head\"\ninside_diameter = \"2000 mm\"\nshape = \"2:1-equivalent\"\njoint_efficiency = 1.0"));
     let m = (3.0 + (0.9f64 / 0.17).sqrt()) / 4.0;
     let expected = 0.9 * m;
@@ -195,7 +305,13 @@ fn cone_at_30_degrees_by_hand() {
 fn cone_angle_from_length() {
     // tan α = (D − d)/(2·L): D = 1000, d = 600, L = 200·√3 → α = 30°... here L = 346.41 mm.
     let c = run(&case("SI", "1 MPa", "138 MPa", "0 mm", "type = \"conical-section\"\ninside_diameter = \"1000 mm\"\nsmall_inside_diameter = \"600 mm\"\nlength = \"400 mm\"\njoint_efficiency = 1.0"));
-    let alpha = c.steps.iter().find(|s| s.symbol == "α").unwrap().quantity.value;
+    let alpha = c
+        .steps
+        .iter()
+        .find(|s| s.symbol == "α")
+        .unwrap()
+        .quantity
+        .value;
     assert!((alpha - (200.0f64 / 400.0).atan()).abs() < 1e-12);
 }
 
@@ -213,9 +329,21 @@ fn static_head_is_rho_g_h_and_mawp_at_top_subtracts_it() {
 #[test]
 fn ug16_floor_governs_thin_low_pressure_parts() {
     // UG-16(b): 1.5 mm exclusive of corrosion allowance (1/16 in in US units).
-    let c = run(&case("SI", "0.01 MPa", "138 MPa", "1 mm", "type = \"cylinder\"\ninside_diameter = \"500 mm\"\njoint_efficiency = 1.0"));
+    let c = run(&case(
+        "SI",
+        "0.01 MPa",
+        "138 MPa",
+        "1 mm",
+        "type = \"cylinder\"\ninside_diameter = \"500 mm\"\njoint_efficiency = 1.0",
+    ));
     assert!((mm(c.minimum_thickness) - 2.5).abs() < 1e-9);
-    let c = run(&case("US", "1 psi", "20000 psi", "0 in", "type = \"cylinder\"\ninside_diameter = \"20 in\"\njoint_efficiency = 1.0"));
+    let c = run(&case(
+        "US",
+        "1 psi",
+        "20000 psi",
+        "0 in",
+        "type = \"cylinder\"\ninside_diameter = \"20 in\"\njoint_efficiency = 1.0",
+    ));
     assert!((inch(c.minimum_thickness) - 0.0625).abs() < 1e-9);
 }
 
@@ -236,7 +364,11 @@ fn hydro_and_pneumatic_tests_use_the_lowest_stress_ratio() {
 fn thin_torisphere_reports_appendix_1_4_f_as_failed_applicability() {
     // t/L < 0.002 brings in Appendix 1, 1-4(f): reported as a failed limit, never a pass.
     let c = run(&case("SI", "0.05 MPa", "138 MPa", "0 mm", "type = \"torispherical-head\"\ninside_diameter = \"3000 mm\"\nnominal_thickness = \"5 mm\"\nshape = \"2:1-equivalent\"\njoint_efficiency = 1.0"));
-    let k = c.checks.iter().find(|k| k.name == "t/L at least 0.002").unwrap();
+    let k = c
+        .checks
+        .iter()
+        .find(|k| k.name == "t/L at least 0.002")
+        .unwrap();
     assert!(!k.pass && k.applicability);
     assert!(!c.acceptable);
 }
@@ -245,7 +377,17 @@ fn thin_torisphere_reports_appendix_1_4_f_as_failed_applicability() {
 fn torisphere_shape_limits_are_checked() {
     // UG-32: r ≥ 0.06·Do, r ≥ 3t, L ≤ Do. Here r = 60 mm < 0.06·2020 = 121.2 mm.
     let c = run(&case("SI", "0.5 MPa", "138 MPa", "0 mm", "type = \"torispherical-head\"\ninside_diameter = \"2000 mm\"\nnominal_thickness = \"10 mm\"\ncrown_radius = \"2000 mm\"\nknuckle_radius = \"60 mm\"\njoint_efficiency = 1.0"));
-    let k = c.checks.iter().find(|k| k.name.starts_with("knuckle radius at least 6 %")).unwrap();
+    let k = c
+        .checks
+        .iter()
+        .find(|k| k.name.starts_with("knuckle radius at least 6 %"))
+        .unwrap();
     assert!(!k.pass);
-    assert!(c.checks.iter().find(|k| k.name.starts_with("knuckle radius at least three")).unwrap().pass);
+    assert!(
+        c.checks
+            .iter()
+            .find(|k| k.name.starts_with("knuckle radius at least three"))
+            .unwrap()
+            .pass
+    );
 }

@@ -29,15 +29,43 @@ struct Inputs {
 }
 
 fn inputs() -> impl Strategy<Value = Inputs> {
-    (0usize..7, 0.05f64..25.0, 200.0f64..5000.0, 60.0f64..250.0, 0.55f64..=1.0, 0.0f64..6.0, 1.0f64..=3.0, 1.0f64..30.0, 0.06f64..0.3, any::<bool>())
-        .prop_map(|(kind, p, d, s, e, ca, aspect, angle, knuckle_frac, outside)| Inputs { kind, p, d, s, e, ca, aspect, angle, knuckle_frac, outside })
+    (
+        0usize..7,
+        0.05f64..25.0,
+        200.0f64..5000.0,
+        60.0f64..250.0,
+        0.55f64..=1.0,
+        0.0f64..6.0,
+        1.0f64..=3.0,
+        1.0f64..30.0,
+        0.06f64..0.3,
+        any::<bool>(),
+    )
+        .prop_map(
+            |(kind, p, d, s, e, ca, aspect, angle, knuckle_frac, outside)| Inputs {
+                kind,
+                p,
+                d,
+                s,
+                e,
+                ca,
+                aspect,
+                angle,
+                knuckle_frac,
+                outside,
+            },
+        )
 }
 
 fn text(i: &Inputs, units: &str) -> String {
     // Torispheres are only given on an inside diameter here (their named and
     // explicit radii are inside radii); the others take either basis.
     let outside = i.outside && i.kind != 4 && i.kind != 5 && i.kind != 6;
-    let basis = if outside { "outside_diameter" } else { "inside_diameter" };
+    let basis = if outside {
+        "outside_diameter"
+    } else {
+        "inside_diameter"
+    };
     let kind = KINDS[i.kind]
         .replace("ASPECT", &format!("{}", i.aspect))
         .replace("CROWN", &format!("{}", i.d))
@@ -51,7 +79,9 @@ fn text(i: &Inputs, units: &str) -> String {
 }
 
 fn result(i: &Inputs) -> Option<ComponentResult> {
-    evaluate("p.toml", &text(i, "SI")).ok().map(|ev| ev.calculation.components[0].clone())
+    evaluate("p.toml", &text(i, "SI"))
+        .ok()
+        .map(|ev| ev.calculation.components[0].clone())
 }
 
 proptest! {

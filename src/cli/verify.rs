@@ -31,7 +31,8 @@ pub struct Report {
 
 /// Verifies one manifest's files.
 pub fn verify_manifest(dir: &Path, manifest_path: &Path) -> Result<(Manifest, Report), String> {
-    let text = std::fs::read_to_string(manifest_path).map_err(|e| format!("cannot read `{}`: {e}", manifest_path.display()))?;
+    let text = std::fs::read_to_string(manifest_path)
+        .map_err(|e| format!("cannot read `{}`: {e}", manifest_path.display()))?;
     let m = Manifest::from_json(&text).map_err(|e| format!("{}: {e}", manifest_path.display()))?;
     let mut lines = vec![format!(
         "Package {} revision {} (digest {}), status {}",
@@ -60,12 +61,18 @@ pub fn run(a: &VerifyArgs) -> i32 {
     let manifests = match find_manifests(&a.dir) {
         Ok(m) => m,
         Err(e) => {
-            eprintln!("error: cannot read the package folder `{}`: {e}", a.dir.display());
+            eprintln!(
+                "error: cannot read the package folder `{}`: {e}",
+                a.dir.display()
+            );
             return EXIT_INPUT;
         }
     };
     if manifests.is_empty() {
-        eprintln!("error: no package manifest (*.manifest.json) in `{}`", a.dir.display());
+        eprintln!(
+            "error: no package manifest (*.manifest.json) in `{}`",
+            a.dir.display()
+        );
         return EXIT_NOT_ACCEPTABLE;
     }
     let recompiled = match &a.case {
@@ -92,7 +99,14 @@ pub fn run(a: &VerifyArgs) -> i32 {
                 },
                 None => TemplateSet::default(),
             };
-            let opts = Options { formats: package::Formats { md: true, pdf: false, json: true }, ..Options::default() };
+            let opts = Options {
+                formats: package::Formats {
+                    md: true,
+                    pdf: false,
+                    json: true,
+                },
+                ..Options::default()
+            };
             match package::compile(&ev, &templates, &super::compile::additions_for(&ev), &opts) {
                 Ok(p) => Some(p),
                 Err(e) => {
@@ -121,19 +135,34 @@ pub fn run(a: &VerifyArgs) -> i32 {
                         let same_digest = p.digest == m.digest;
                         println!(
                             "  recompiled from the case file: digest {}",
-                            if same_digest { "matches" } else { "DIFFERS (the case, the templates or the tool version changed)" }
+                            if same_digest {
+                                "matches"
+                            } else {
+                                "DIFFERS (the case, the templates or the tool version changed)"
+                            }
                         );
                         for (name, bytes) in &p.files {
                             if let Some(entry) = m.files.iter().find(|f| &f.name == name) {
-                                let same = crate::package::manifest::sha256_hex(bytes) == entry.sha256;
-                                println!("  recompiled {name:<37} {}", if same { "matches" } else { "DIFFERS" });
+                                let same =
+                                    crate::package::manifest::sha256_hex(bytes) == entry.sha256;
+                                println!(
+                                    "  recompiled {name:<37} {}",
+                                    if same { "matches" } else { "DIFFERS" }
+                                );
                                 all_ok &= same;
                             }
                         }
                         all_ok &= same_digest;
                     }
                 }
-                println!("  verdict: {}", if report.ok { "every file is as compiled" } else { "the package has been altered or is incomplete" });
+                println!(
+                    "  verdict: {}",
+                    if report.ok {
+                        "every file is as compiled"
+                    } else {
+                        "the package has been altered or is incomplete"
+                    }
+                );
             }
         }
     }

@@ -26,7 +26,11 @@ struct Canonical<'a> {
 }
 
 /// The canonical bytes the digest is taken over (exposed for tests and audits).
-pub fn canonical_bytes(ev: &Evaluated, templates: &TemplateSet, extra: &BTreeMap<String, serde_json::Map<String, serde_json::Value>>) -> Vec<u8> {
+pub fn canonical_bytes(
+    ev: &Evaluated,
+    templates: &TemplateSet,
+    extra: &BTreeMap<String, serde_json::Map<String, serde_json::Value>>,
+) -> Vec<u8> {
     let c = Canonical {
         format: "knuckle-digest/1",
         tool: (crate::results::TOOL_NAME, crate::results::TOOL_VERSION),
@@ -41,6 +45,10 @@ pub fn canonical_bytes(ev: &Evaluated, templates: &TemplateSet, extra: &BTreeMap
 }
 
 /// The package digest in lower-case hex.
-pub fn digest(ev: &Evaluated, templates: &TemplateSet, extra: &BTreeMap<String, serde_json::Map<String, serde_json::Value>>) -> String {
+pub fn digest(
+    ev: &Evaluated,
+    templates: &TemplateSet,
+    extra: &BTreeMap<String, serde_json::Map<String, serde_json::Value>>,
+) -> String {
     crate::package::manifest::hex(&Sha256::digest(canonical_bytes(ev, templates, extra)))
 }

@@ -3,6 +3,6 @@
 //! Renderers never compute engineering values; they only present what the
 //! earlier stages recorded.
 
-pub mod pdf;
 pub mod context;
+pub mod pdf;
 pub mod templates;

@@ -319,7 +319,7 @@ fn component_mawp(
         } => heads::torispherical_mawp(s, *crown_radius, *knuckle_radius, condition)?,
         ComponentKind::ConicalSection { .. } => cone::mawp(s, c, condition)?,
     };
-    if !(q.value > 0.0) {
+    if q.value.is_nan() || q.value <= 0.0 {
         return Err(CalcError::OutOfRange {
             component: c.id.clone(),
             message: format!(

@@ -45,9 +45,19 @@ pub fn evaluate(
     };
     let compared: Vec<String> = components
         .iter()
-        .filter_map(|c| c.mawp_top.map(|q| format!("{} {}", c.id, design.units.display(q))))
+        .filter_map(|c| {
+            c.mawp_top
+                .map(|q| format!("{} {}", c.id, design.units.display(q)))
+        })
         .collect();
-    s.derived("P_v", &words, "UG-98", "min(Ptop of every component)", &format!("min({})", compared.join("; ")), mawp);
+    s.derived(
+        "P_v",
+        &words,
+        "UG-98",
+        "min(Ptop of every component)",
+        &format!("min({})", compared.join("; ")),
+        mawp,
+    );
     s.check_at_least(
         "vessel MAWP covers the design pressure",
         "UG-98",
@@ -92,7 +102,11 @@ pub fn evaluate(
             m.allowable_stress,
         );
         let r = s.step(&f::STRESS_RATIO, &format!("stress ratio of {}", m.name))?;
-        ratios.push(format!("{} {}", key, crate::units::format_number(r.value, 6)));
+        ratios.push(format!(
+            "{} {}",
+            key,
+            crate::units::format_number(r.value, 6)
+        ));
         if lowest.is_none_or(|(v, _)| r.value < v) {
             lowest = Some((r.value, key));
         }

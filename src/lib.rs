@@ -11,3 +11,4 @@
 //! | figures | [`drawing::Drawing`] | [`drawing`] |
 
 pub mod drawing;
+pub mod geometry;

@@ -12,3 +12,4 @@
 
 pub mod drawing;
 pub mod geometry;
+pub mod render;

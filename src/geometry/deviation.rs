@@ -105,8 +105,8 @@ pub fn deviation(actual: &Profile, reference: &Profile) -> Deviation {
     let p_out = actual.point(s_out);
     let p_in = actual.point(s_in);
     Deviation {
-        max_outside: v_out.max(0.0),
-        max_inside: v_in.max(0.0),
+        max_outside: if v_out > 0.0 { v_out } else { 0.0 },
+        max_inside: if v_in > 0.0 { v_in } else { 0.0 },
         at_radius_outside: p_out.0,
         at_radius_inside: p_in.0,
         at_height_outside: p_out.1,

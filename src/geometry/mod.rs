@@ -15,17 +15,23 @@
 //! line (positive towards the crown, negative along the straight flange).
 
 mod deviation;
+mod figure;
 mod numeric;
 mod profile;
 mod properties;
+mod study;
 
 pub use deviation::{
     deviation, deviation_curve, point_deviations, reference_profile, ug81_limits, Deviation,
     PointDeviation, Reference,
 };
+pub use figure::{deviation_plot, profile_drawing, DrawingLabels, PlotData, PlotPoint};
 pub use numeric::{brent_root, golden_max, integrate, QUADRATURE_TOLERANCE};
 pub use profile::{Nearest, Profile, Segment, SegmentRole};
 pub use properties::{properties, Computed, Properties};
+pub use study::{
+    head_study, study_table_markdown, study_table_text, StudyInput, StudyReport, StudyRow,
+};
 
 use serde::{Deserialize, Serialize};
 use std::fmt;

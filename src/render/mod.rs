@@ -1,0 +1,3 @@
+//! Output formats for [`crate::drawing::Drawing`] figures.
+
+pub mod svg;

@@ -88,6 +88,22 @@ pub(crate) fn invalid(what: &'static str, detail: impl Into<String>) -> Geometry
     }
 }
 
+/// The largest length accepted anywhere, mm (1 km). Larger values are
+/// certainly input errors, and rejecting them keeps every volume finite.
+pub const MAX_LENGTH: f64 = 1e6;
+
+/// Checks that a length is finite and at most [`MAX_LENGTH`].
+pub(crate) fn length(what: &'static str, value: f64) -> Result<f64, GeometryError> {
+    let v = finite(what, value)?;
+    if v.abs() > MAX_LENGTH {
+        return Err(invalid(
+            what,
+            format!("{v} mm is larger than the {MAX_LENGTH} mm accepted"),
+        ));
+    }
+    Ok(v)
+}
+
 /// Checks that a value is a finite number, naming it in the error otherwise.
 pub(crate) fn finite(what: &'static str, value: f64) -> Result<f64, GeometryError> {
     if value.is_finite() {
@@ -219,21 +235,21 @@ impl HeadSpec {
     /// first problem found as a clear error. A spec that passes can be turned
     /// into a [`Profile`] without failure.
     pub fn validate(&self) -> Result<(), GeometryError> {
-        let d = finite("inside diameter", self.inside_diameter)?;
+        let d = length("inside diameter", self.inside_diameter)?;
         if d <= 0.0 {
             return Err(invalid(
                 "inside diameter",
                 format!("{d} mm must be positive"),
             ));
         }
-        let sf = finite("straight flange", self.straight_flange)?;
+        let sf = length("straight flange", self.straight_flange)?;
         if sf < 0.0 {
             return Err(invalid(
                 "straight flange",
                 format!("{sf} mm must not be negative"),
             ));
         }
-        let t = finite("thickness", self.thickness)?;
+        let t = length("thickness", self.thickness)?;
         if t < 0.0 {
             return Err(invalid("thickness", format!("{t} mm must not be negative")));
         }
@@ -258,8 +274,8 @@ impl HeadSpec {
                 crown_radius,
                 knuckle_radius,
             } => {
-                let l = finite("crown radius", crown_radius)?;
-                let r = finite("knuckle radius", knuckle_radius)?;
+                let l = length("crown radius", crown_radius)?;
+                let r = length("knuckle radius", knuckle_radius)?;
                 if r <= 0.0 {
                     return Err(invalid(
                         "knuckle radius",
@@ -306,6 +322,15 @@ impl HeadSpec {
                     return Err(invalid(
                         "cone half apex angle",
                         format!("{a} rad must lie strictly between 0 and π/2"),
+                    ));
+                }
+                let depth = 0.5 * (d - ds) / a.tan();
+                if depth > MAX_LENGTH {
+                    return Err(invalid(
+                        "cone half apex angle",
+                        format!(
+                            "{a} rad makes the cone {depth} mm deep, more than the {MAX_LENGTH} mm accepted"
+                        ),
                     ));
                 }
             }

@@ -8,7 +8,7 @@
 //! continuous along the whole meridian.
 
 use super::numeric::brent_root;
-use super::{finite, invalid, GeometryError, HeadShape, HeadSpec};
+use super::{finite, invalid, length, GeometryError, HeadShape, HeadSpec};
 use serde::Serialize;
 use std::f64::consts::FRAC_PI_2;
 
@@ -326,9 +326,9 @@ impl Profile {
         depth: f64,
         straight_flange: f64,
     ) -> Result<Profile, GeometryError> {
-        let d = finite("reference diameter", inside_diameter)?;
-        let h = finite("reference depth", depth)?;
-        let sf = finite("straight flange", straight_flange)?;
+        let d = length("reference diameter", inside_diameter)?;
+        let h = length("reference depth", depth)?;
+        let sf = length("straight flange", straight_flange)?;
         if d <= 0.0 || h <= 0.0 || sf < 0.0 {
             return Err(invalid(
                 "reference ellipse",

@@ -434,7 +434,8 @@ pub fn profile_drawing(
             ];
             let mut number = 0;
             for &(value, x, z, side) in &marks {
-                if value <= 0.0 {
+                // Below a twentieth of a millimetre there is nothing to mark.
+                if value < 0.05 {
                     continue;
                 }
                 number += 1;
@@ -631,7 +632,12 @@ fn radius_leader(
     let tip = fr.at(on_arc);
     // Direction from the arc point towards the centre, on paper (mirrored x).
     let dir = (theta.sin(), theta.cos());
-    let len = (rho * fr.scale).min(max_len);
+    let mut len = (rho * fr.scale).min(max_len);
+    // Keep the label above the tangent line, clear of the D dimension.
+    let room = fr.y_tl - 5.0 - tip.1;
+    if dir.1 > 0.0 && room > 0.0 {
+        len = len.min(room / dir.1);
+    }
     let inner = (tip.0 + dir.0 * len, tip.1 + dir.1 * len);
     vec![
         line(vec![inner, tip], Stroke::solid(THIN)),

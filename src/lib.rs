@@ -21,6 +21,7 @@ pub mod diag;
 pub mod drawing;
 pub mod expr;
 pub mod fsio;
+pub mod geometry;
 pub mod model;
 pub mod package;
 pub mod pipeline;

@@ -5,4 +5,5 @@
 
 pub mod context;
 pub mod pdf;
+pub mod svg;
 pub mod templates;

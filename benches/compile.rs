@@ -12,8 +12,7 @@ use std::time::Instant;
 fn compile(name: &str, source: &str, templates: &TemplateSet) -> usize {
     let ev = evaluate(name, source).expect("case evaluates");
     let additions = knuckle::cli::compile::additions_for(&ev);
-    let pkg = package::compile(&ev, templates, &additions, &Options::default())
-        .expect("package compiles");
+    let pkg = package::compile(&ev, templates, &additions, &Options::default()).expect("package compiles");
     pkg.files.iter().map(|(_, b)| b.len()).sum()
 }
 
@@ -30,39 +29,21 @@ fn main() {
         bytes += compile("v310.toml", &source, &templates);
     }
     let per = t.elapsed().as_secs_f64() * 1e3 / n as f64;
-    println!(
-        "single package (SI example, MD+PDF+JSON): {per:.2} ms per package ({} bytes)",
-        bytes / n
-    );
+    println!("single package (SI example, MD+PDF+JSON): {per:.2} ms per package ({} bytes)", bytes / n);
 
     let cases: Vec<String> = (0..1000)
         .map(|i| {
             let p = 0.5 + (i % 40) as f64 * 0.05;
             let d = 800 + (i % 25) * 100;
             source
-                .replace(
-                    "internal_pressure = \"1.0 MPa\"",
-                    &format!("internal_pressure = \"{p} MPa\""),
-                )
-                .replace(
-                    "inside_diameter = \"1800 mm\"",
-                    &format!("inside_diameter = \"{d} mm\""),
-                )
-                .replace(
-                    "number = \"DEMO-V310-CALC-001\"",
-                    &format!("number = \"BATCH-{i:04}\""),
-                )
+                .replace("internal_pressure = \"1.0 MPa\"", &format!("internal_pressure = \"{p} MPa\""))
+                .replace("inside_diameter = \"1800 mm\"", &format!("inside_diameter = \"{d} mm\""))
+                .replace("number = \"DEMO-V310-CALC-001\"", &format!("number = \"BATCH-{i:04}\""))
         })
         .collect();
     let t = Instant::now();
-    let total: usize = cases
-        .par_iter()
-        .enumerate()
-        .map(|(i, s)| compile(&format!("batch-{i}.toml"), s, &templates))
-        .sum();
+    let total: usize =
+        cases.par_iter().enumerate().map(|(i, s)| compile(&format!("batch-{i}.toml"), s, &templates)).sum();
     let secs = t.elapsed().as_secs_f64();
-    println!(
-        "batch of 1000 generated cases (MD+PDF+JSON, rayon): {secs:.2} s ({:.1} MB)",
-        total as f64 / 1e6
-    );
+    println!("batch of 1000 generated cases (MD+PDF+JSON, rayon): {secs:.2} s ({:.1} MB)", total as f64 / 1e6);
 }

@@ -92,6 +92,47 @@ fn component_json(c: &ComponentResult, extra: Option<&Map<String, Value>>) -> Va
         "checks": c.checks.iter().map(check_json).collect::<Vec<_>>(),
         "limits": c.limits,
     });
+    if let (Some(obj), Some(g)) = (v.as_object_mut(), &c.geometry) {
+        let p = &g.properties;
+        obj.insert(
+            "geometry".into(),
+            json!({
+                "inside_diameter": g.spec.inside_diameter,
+                "thickness": g.spec.thickness,
+                "thickness_basis": g.thickness_basis,
+                "inside_depth": p.inside_depth.value,
+                "depth_with_flange": p.depth_with_flange.value,
+                "volume": p.volume.value * 1e-9,
+                "volume_with_flange": p.volume_with_flange.value * 1e-9,
+                "inside_area": p.inside_area.value * 1e-6,
+                "inside_area_with_flange": p.inside_area_with_flange.value * 1e-6,
+                "blank_diameter": p.blank_diameter.value,
+                "mass": p.mass.value,
+                "methods": {
+                    "inside_depth": p.inside_depth.method,
+                    "volume": p.volume.method,
+                    "inside_area": p.inside_area.method,
+                    "blank_diameter": p.blank_diameter.method,
+                    "mass": p.mass.method,
+                },
+            }),
+        );
+        if let Some(d) = &g.shape_deviation {
+            obj.insert(
+                "shape_deviation".into(),
+                json!({
+                    "reference": d.reference,
+                    "max_outside": d.deviation.max_outside,
+                    "max_inside": d.deviation.max_inside,
+                    "at_radius": d.deviation.at_radius_outside,
+                    "at_radius_inside": d.deviation.at_radius_inside,
+                    "limit_outside": d.limits.0,
+                    "limit_inside": d.limits.1,
+                    "judged_against_ug81": d.judged,
+                }),
+            );
+        }
+    }
     if let (Some(obj), Some(extra)) = (v.as_object_mut(), extra) {
         for (k, x) in extra {
             obj.insert(k.clone(), x.clone());

@@ -54,11 +54,7 @@ fn handbook_cylinder_example_100_psi_48_in_radius() {
         "0.125 in",
         "type = \"cylinder\"\ninside_diameter = \"96 in\"\njoint_efficiency = 0.85",
     ));
-    assert!(
-        (inch(c.required_thickness) - 0.325).abs() < 0.001,
-        "{}",
-        inch(c.required_thickness)
-    );
+    assert!((inch(c.required_thickness) - 0.325).abs() < 0.001, "{}", inch(c.required_thickness));
     assert!((inch(c.minimum_thickness) - 0.450).abs() < 0.001);
 }
 
@@ -67,7 +63,13 @@ fn cylinder_mawp_by_hand_from_ug27() {
     // Hand arithmetic from the printed UG-27(c)(1) formula P = S·E·t/(R + 0.6·t):
     // S = 138 MPa, E = 1, t = 12 − 2 = 10 mm, R = 500 + 2 = 502 mm
     // → P = 1380/508 = 2.716535 MPa. The longitudinal formula gives more.
-    let c = run(&case("SI", "1 MPa", "138 MPa", "2 mm", "type = \"cylinder\"\ninside_diameter = \"1000 mm\"\nnominal_thickness = \"12 mm\"\njoint_efficiency = 1.0"));
+    let c = run(&case(
+        "SI",
+        "1 MPa",
+        "138 MPa",
+        "2 mm",
+        "type = \"cylinder\"\ninside_diameter = \"1000 mm\"\nnominal_thickness = \"12 mm\"\njoint_efficiency = 1.0",
+    ));
     assert!((c.mawp.unwrap().value / 1e6 - 1380.0 / 508.0).abs() < 1e-9);
     // MAP new and cold: t = 12, R = 500 → 1656/507.2.
     assert!((c.map.unwrap().value / 1e6 - 1656.0 / 507.2).abs() < 1e-9);
@@ -206,17 +208,8 @@ fn ellipsoidal_k_factor_matches_table_1_4_1() {
     ];
     for (a, k_table) in table {
         let c = run(&case("SI", "1 MPa", "138 MPa", "0 mm", &format!("type = \"ellipsoidal-head\"\ninside_diameter = \"2000 mm\"\naspect_ratio = {a}\njoint_efficiency = 1.0")));
-        let k = c
-            .steps
-            .iter()
-            .find(|s| s.symbol == "K")
-            .unwrap()
-            .quantity
-            .value;
-        assert!(
-            (k - k_table).abs() <= 0.0051,
-            "D/2h = {a}: K = {k}, table {k_table}"
-        );
+        let k = c.steps.iter().find(|s| s.symbol == "K").unwrap().quantity.value;
+        assert!((k - k_table).abs() <= 0.0051, "D/2h = {a}: K = {k}, table {k_table}");
     }
 }
 
@@ -265,10 +258,7 @@ fn torispherical_m_factor_matches_table_1_4_2() {
         sheet.input("L", "crown radius", Quantity::mm(1800.0));
         sheet.input("r", "knuckle radius", Quantity::mm(1800.0 / ratio));
         let m = sheet.step(&formulas::TORI_M, "M").unwrap().value;
-        assert!(
-            (m - m_table).abs() <= 0.006,
-            "L/r = {ratio}: M = {m}, table {m_table}"
-        );
+        assert!((m - m_table).abs() <= 0.006, "L/r = {ratio}: M = {m}, table {m_table}");
     }
 }
 
@@ -305,13 +295,7 @@ fn cone_at_30_degrees_by_hand() {
 fn cone_angle_from_length() {
     // tan α = (D − d)/(2·L): D = 1000, d = 600, L = 200·√3 → α = 30°... here L = 346.41 mm.
     let c = run(&case("SI", "1 MPa", "138 MPa", "0 mm", "type = \"conical-section\"\ninside_diameter = \"1000 mm\"\nsmall_inside_diameter = \"600 mm\"\nlength = \"400 mm\"\njoint_efficiency = 1.0"));
-    let alpha = c
-        .steps
-        .iter()
-        .find(|s| s.symbol == "α")
-        .unwrap()
-        .quantity
-        .value;
+    let alpha = c.steps.iter().find(|s| s.symbol == "α").unwrap().quantity.value;
     assert!((alpha - (200.0f64 / 400.0).atan()).abs() < 1e-12);
 }
 
@@ -350,8 +334,14 @@ fn ug16_floor_governs_thin_low_pressure_parts() {
 #[test]
 fn hydro_and_pneumatic_tests_use_the_lowest_stress_ratio() {
     // UG-99(b): 1.3·MAWP·(S_test/S); UG-100: 1.1·MAWP·(S_test/S).
-    let text = case("SI", "1 MPa", "120 MPa", "0 mm", "type = \"cylinder\"\ninside_diameter = \"1000 mm\"\nnominal_thickness = \"10 mm\"\njoint_efficiency = 1.0")
-        .replace("allowable_stress = \"120 MPa\"", "allowable_stress = \"120 MPa\"\ntest_allowable_stress = \"138 MPa\"");
+    let text = case(
+        "SI",
+        "1 MPa",
+        "120 MPa",
+        "0 mm",
+        "type = \"cylinder\"\ninside_diameter = \"1000 mm\"\nnominal_thickness = \"10 mm\"\njoint_efficiency = 1.0",
+    )
+    .replace("allowable_stress = \"120 MPa\"", "allowable_stress = \"120 MPa\"\ntest_allowable_stress = \"138 MPa\"");
     let ev = evaluate("t.toml", &text).unwrap();
     let v = &ev.calculation.vessel;
     let ratio = 138.0 / 120.0;
@@ -364,11 +354,7 @@ fn hydro_and_pneumatic_tests_use_the_lowest_stress_ratio() {
 fn thin_torisphere_reports_appendix_1_4_f_as_failed_applicability() {
     // t/L < 0.002 brings in Appendix 1, 1-4(f): reported as a failed limit, never a pass.
     let c = run(&case("SI", "0.05 MPa", "138 MPa", "0 mm", "type = \"torispherical-head\"\ninside_diameter = \"3000 mm\"\nnominal_thickness = \"5 mm\"\nshape = \"2:1-equivalent\"\njoint_efficiency = 1.0"));
-    let k = c
-        .checks
-        .iter()
-        .find(|k| k.name == "t/L at least 0.002")
-        .unwrap();
+    let k = c.checks.iter().find(|k| k.name == "t/L at least 0.002").unwrap();
     assert!(!k.pass && k.applicability);
     assert!(!c.acceptable);
 }
@@ -377,17 +363,7 @@ fn thin_torisphere_reports_appendix_1_4_f_as_failed_applicability() {
 fn torisphere_shape_limits_are_checked() {
     // UG-32: r ≥ 0.06·Do, r ≥ 3t, L ≤ Do. Here r = 60 mm < 0.06·2020 = 121.2 mm.
     let c = run(&case("SI", "0.5 MPa", "138 MPa", "0 mm", "type = \"torispherical-head\"\ninside_diameter = \"2000 mm\"\nnominal_thickness = \"10 mm\"\ncrown_radius = \"2000 mm\"\nknuckle_radius = \"60 mm\"\njoint_efficiency = 1.0"));
-    let k = c
-        .checks
-        .iter()
-        .find(|k| k.name.starts_with("knuckle radius at least 6 %"))
-        .unwrap();
+    let k = c.checks.iter().find(|k| k.name.starts_with("knuckle radius at least 6 %")).unwrap();
     assert!(!k.pass);
-    assert!(
-        c.checks
-            .iter()
-            .find(|k| k.name.starts_with("knuckle radius at least three"))
-            .unwrap()
-            .pass
-    );
+    assert!(c.checks.iter().find(|k| k.name.starts_with("knuckle radius at least three")).unwrap().pass);
 }

@@ -13,18 +13,10 @@ fn json_of(case: &str) -> (i32, Value) {
 
 #[test]
 fn examples_are_acceptable_and_print_a_summary() {
-    for case in [
-        "examples/v310-receiver-si.toml",
-        "examples/k12-air-receiver-us.toml",
-    ] {
+    for case in ["examples/v310-receiver-si.toml", "examples/k12-air-receiver-us.toml"] {
         let out = knuckle(&["check", case]);
         let text = String::from_utf8_lossy(&out.stdout);
-        assert_eq!(
-            out.status.code(),
-            Some(0),
-            "{case}\n{text}{}",
-            String::from_utf8_lossy(&out.stderr)
-        );
+        assert_eq!(out.status.code(), Some(0), "{case}\n{text}{}", String::from_utf8_lossy(&out.stderr));
         assert!(text.contains("vessel MAWP at the top"), "{text}");
         assert!(text.contains("hydrostatic test, UG-99(b)"));
         assert!(text.contains("status: ACCEPTABLE"));
@@ -62,15 +54,7 @@ fn json_contract_fields_are_present() {
         }
         assert!(c["status"] == "acceptable" || c["status"] == "not-acceptable");
         for s in c["steps"].as_array().unwrap() {
-            for key in [
-                "symbol",
-                "description",
-                "clause",
-                "formula",
-                "substituted",
-                "value",
-                "unit",
-            ] {
+            for key in ["symbol", "description", "clause", "formula", "substituted", "value", "unit"] {
                 assert!(s.get(key).is_some(), "step lacks {key}");
             }
         }
@@ -80,13 +64,7 @@ fn json_contract_fields_are_present() {
             }
         }
     }
-    for key in [
-        "mawp",
-        "governing_component",
-        "hydrotest_pressure",
-        "pneumatic_test_pressure",
-        "status",
-    ] {
+    for key in ["mawp", "governing_component", "hydrotest_pressure", "pneumatic_test_pressure", "status"] {
         assert!(v["vessel"].get(key).is_some(), "vessel lacks {key}");
     }
 }
@@ -96,33 +74,14 @@ fn every_reported_number_is_the_value_of_a_step() {
     // Invariant: required/minimum thickness and MAWP come from recorded steps.
     let (_, v) = json_of("examples/v310-receiver-si.toml");
     for c in v["components"].as_array().unwrap() {
-        let values: Vec<f64> = c["steps"]
-            .as_array()
-            .unwrap()
-            .iter()
-            .filter_map(|s| s["value"].as_f64())
-            .collect();
-        for key in [
-            "required_thickness",
-            "minimum_thickness",
-            "mawp",
-            "mawp_top",
-            "map",
-        ] {
+        let values: Vec<f64> = c["steps"].as_array().unwrap().iter().filter_map(|s| s["value"].as_f64()).collect();
+        for key in ["required_thickness", "minimum_thickness", "mawp", "mawp_top", "map"] {
             let x = c[key].as_f64().unwrap();
-            assert!(
-                values.contains(&x),
-                "{}: {key} = {x} is not a step value",
-                c["id"]
-            );
+            assert!(values.contains(&x), "{}: {key} = {x} is not a step value", c["id"]);
         }
     }
-    let vessel_values: Vec<f64> = v["vessel"]["steps"]
-        .as_array()
-        .unwrap()
-        .iter()
-        .filter_map(|s| s["value"].as_f64())
-        .collect();
+    let vessel_values: Vec<f64> =
+        v["vessel"]["steps"].as_array().unwrap().iter().filter_map(|s| s["value"].as_f64()).collect();
     for key in ["mawp", "hydrotest_pressure", "pneumatic_test_pressure"] {
         let x = v["vessel"][key].as_f64().unwrap();
         assert!(vessel_values.contains(&x), "vessel {key}");
@@ -142,25 +101,12 @@ fn a_failing_design_exits_1_and_says_why() {
 fn a_steep_cone_reports_a_failed_applicability_check_and_no_thickness() {
     let (code, v) = json_of("tests/cases/good/steep-cone.toml");
     assert_eq!(code, 1);
-    let cone = v["components"]
-        .as_array()
-        .unwrap()
-        .iter()
-        .find(|c| c["id"] == "cone")
-        .unwrap();
+    let cone = v["components"].as_array().unwrap().iter().find(|c| c["id"] == "cone").unwrap();
     assert!(cone["required_thickness"].is_null());
     assert!(cone["mawp"].is_null());
-    let check = cone["checks"]
-        .as_array()
-        .unwrap()
-        .iter()
-        .find(|k| k["name"] == "half-apex angle within 30°")
-        .unwrap();
+    let check = cone["checks"].as_array().unwrap().iter().find(|k| k["name"] == "half-apex angle within 30°").unwrap();
     assert_eq!(check["pass"], false);
-    assert!(check["note"]
-        .as_str()
-        .unwrap()
-        .contains("Appendix 1, 1-5(g)"));
+    assert!(check["note"].as_str().unwrap().contains("Appendix 1, 1-5(g)"));
     assert!(v["cautions"]
         .as_array()
         .unwrap()

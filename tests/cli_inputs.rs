@@ -8,32 +8,16 @@ use common::*;
 #[test]
 fn every_bad_input_fixture_is_refused_with_a_clear_message() {
     let cases = fixtures("bad");
-    assert!(
-        cases.len() >= 30,
-        "expected the full set of bad-input fixtures"
-    );
+    assert!(cases.len() >= 30, "expected the full set of bad-input fixtures");
     for case in cases {
-        let rel = case
-            .strip_prefix(root())
-            .unwrap()
-            .to_string_lossy()
-            .into_owned();
+        let rel = case.strip_prefix(root()).unwrap().to_string_lossy().into_owned();
         let out = knuckle(&["check", &rel]);
         let stderr = String::from_utf8_lossy(&out.stderr);
         assert_eq!(out.status.code(), Some(2), "{rel}: exit status\n{stderr}");
-        assert!(
-            out.stdout.is_empty(),
-            "{rel}: nothing may be printed on stdout"
-        );
+        assert!(out.stdout.is_empty(), "{rel}: nothing may be printed on stdout");
         assert!(!stderr.contains("panicked"), "{rel}: panic\n{stderr}");
-        assert!(
-            stderr.contains(&format!("--> {rel}")),
-            "{rel}: message must name the file\n{stderr}"
-        );
-        assert!(
-            stderr.contains("nothing was computed or written"),
-            "{rel}\n{stderr}"
-        );
+        assert!(stderr.contains(&format!("--> {rel}")), "{rel}: message must name the file\n{stderr}");
+        assert!(stderr.contains("nothing was computed or written"), "{rel}\n{stderr}");
         for e in expectations(&case) {
             assert!(stderr.contains(&e), "{rel}: message lacks `{e}`\n{stderr}");
         }
@@ -44,26 +28,11 @@ fn every_bad_input_fixture_is_refused_with_a_clear_message() {
 fn messages_point_at_line_and_column_of_the_key() {
     let out = knuckle(&["check", "tests/cases/bad/joint-efficiency-above-one.toml"]);
     let stderr = String::from_utf8_lossy(&out.stderr);
-    let text =
-        std::fs::read_to_string(root().join("tests/cases/bad/joint-efficiency-above-one.toml"))
-            .unwrap();
-    let line = text
-        .lines()
-        .position(|l| l.starts_with("joint_efficiency = 1.2"))
-        .unwrap()
-        + 1;
-    assert!(
-        stderr.contains(&format!("joint-efficiency-above-one.toml:{line}:20")),
-        "{stderr}"
-    );
-    assert!(
-        stderr.contains("joint_efficiency = 1.2"),
-        "the offending line is quoted\n{stderr}"
-    );
-    assert!(
-        stderr.contains("= expected: a number greater than 0 and at most 1"),
-        "{stderr}"
-    );
+    let text = std::fs::read_to_string(root().join("tests/cases/bad/joint-efficiency-above-one.toml")).unwrap();
+    let line = text.lines().position(|l| l.starts_with("joint_efficiency = 1.2")).unwrap() + 1;
+    assert!(stderr.contains(&format!("joint-efficiency-above-one.toml:{line}:20")), "{stderr}");
+    assert!(stderr.contains("joint_efficiency = 1.2"), "the offending line is quoted\n{stderr}");
+    assert!(stderr.contains("= expected: a number greater than 0 and at most 1"), "{stderr}");
     assert!(stderr.contains("= hint:"), "{stderr}");
 }
 
@@ -83,9 +52,7 @@ fn usage_errors_exit_2() {
 #[test]
 fn several_errors_are_reported_together() {
     let src = std::fs::read_to_string(root().join("src/cli/starter.toml")).unwrap();
-    let src = src
-        .replace("joint_efficiency = 0.85", "joint_efficiency = 7")
-        .replace("\"0.8 MPa\"", "\"-1 MPa\"");
+    let src = src.replace("joint_efficiency = 0.85", "joint_efficiency = 7").replace("\"0.8 MPa\"", "\"-1 MPa\"");
     let dir = scratch("several-errors");
     let p = dir.join("case.toml");
     std::fs::write(&p, src).unwrap();

@@ -1,8 +1,8 @@
 //! Shape deviation and measured-point deviation.
 
 use knuckle::geometry::{
-    deviation, point_deviations, reference_profile, ug81_limits, GeometryError, HeadShape,
-    HeadSpec, NamedTorisphere, Profile, Reference,
+    deviation, point_deviations, reference_profile, ug81_limits, GeometryError, HeadShape, HeadSpec, NamedTorisphere,
+    Profile, Reference,
 };
 
 fn torisphere_2500() -> Profile {
@@ -107,11 +107,7 @@ fn measured_points_recover_known_normal_offsets() {
         }
         let devs = point_deviations(p, &pts).unwrap();
         for (d, (off, q)) in devs.iter().zip(offsets) {
-            assert!(
-                (d.deviation - off).abs() < 1e-6,
-                "{} vs {off} at {q:?}",
-                d.deviation
-            );
+            assert!((d.deviation - off).abs() < 1e-6, "{} vs {off} at {q:?}", d.deviation);
             assert!((d.nearest_x - q.0).abs() < 1e-4 && (d.nearest_z - q.1).abs() < 1e-4);
         }
     }

@@ -2,8 +2,8 @@
 
 use knuckle::drawing::Shape;
 use knuckle::geometry::{
-    deviation, deviation_curve, deviation_plot, point_deviations, profile_drawing,
-    reference_profile, ug81_limits, DrawingLabels, HeadSpec, NamedTorisphere, PlotData, Reference,
+    deviation, deviation_curve, deviation_plot, point_deviations, profile_drawing, reference_profile, ug81_limits,
+    DrawingLabels, HeadSpec, NamedTorisphere, PlotData, Reference,
 };
 use knuckle::render::svg::to_svg;
 
@@ -33,23 +33,12 @@ fn section_drawing_shows_dimensions_reference_and_exaggeration() {
     let p = s.profile().unwrap();
     let r = reference_profile(&p, Reference::TwoToOne).unwrap();
     let dev = deviation(&p, &r);
-    let labels = DrawingLabels {
-        title: "Bottom head".into(),
-        reference_name: "true 2:1 ellipse".into(),
-        ..Default::default()
-    };
+    let labels =
+        DrawingLabels { title: "Bottom head".into(), reference_name: "true 2:1 ellipse".into(), ..Default::default() };
     let d = profile_drawing(&s, &p, Some(&r), Some(&dev), &labels);
     assert_eq!(d.width, 160.0);
     let t = texts(&d.shapes);
-    for needle in [
-        "D = 2500",
-        "h = 622.1",
-        "L = 2250",
-        "r = 425",
-        "sf = 50",
-        "tangent line",
-        "scale 1:25",
-    ] {
+    for needle in ["D = 2500", "h = 622.1", "L = 2250", "r = 425", "sf = 50", "tangent line", "scale 1:25"] {
         assert!(t.iter().any(|x| x == needle), "{needle} missing from {t:?}");
     }
     assert!(t.iter().any(|x| x.contains("shown ×5")), "{t:?}");
@@ -62,22 +51,13 @@ fn section_drawing_shows_dimensions_reference_and_exaggeration() {
             Shape::Text { at, .. } => vec![*at],
         };
         for (x, y) in pts {
-            assert!(
-                (0.0..=d.width).contains(&x) && (0.0..=d.height).contains(&y),
-                "({x}, {y}) off the page"
-            );
+            assert!((0.0..=d.width).contains(&x) && (0.0..=d.height).contains(&y), "({x}, {y}) off the page");
         }
     }
     // The reference is dashed.
-    assert!(d
-        .shapes
-        .iter()
-        .any(|s| matches!(s, Shape::Polyline { stroke, .. } if stroke.dash.is_some())));
+    assert!(d.shapes.iter().any(|s| matches!(s, Shape::Polyline { stroke, .. } if stroke.dash.is_some())));
     // Same input, same bytes.
-    assert_eq!(
-        to_svg(&d),
-        to_svg(&profile_drawing(&s, &p, Some(&r), Some(&dev), &labels))
-    );
+    assert_eq!(to_svg(&d), to_svg(&profile_drawing(&s, &p, Some(&r), Some(&dev), &labels)));
 }
 
 #[test]
@@ -97,25 +77,12 @@ fn deviation_plot_shows_the_ug81_band_and_counts_points_outside_it() {
         })
         .collect();
     data.points = PlotData::from_points(&point_deviations(&p, &pts).unwrap()).points;
-    let labels = DrawingLabels {
-        title: "As-built".into(),
-        reference_name: "true 2:1 ellipse".into(),
-        ..Default::default()
-    };
+    let labels =
+        DrawingLabels { title: "As-built".into(), reference_name: "true 2:1 ellipse".into(), ..Default::default() };
     let d = deviation_plot(&data, ug81_limits(2500.0), &labels);
     let t = texts(&d.shapes);
-    assert!(
-        t.iter().any(|x| x == "UG-81 outside limit +31.25 mm"),
-        "{t:?}"
-    );
-    assert!(
-        t.iter().any(|x| x == "UG-81 inside limit −15.625 mm"),
-        "{t:?}"
-    );
+    assert!(t.iter().any(|x| x == "UG-81 outside limit +31.25 mm"), "{t:?}");
+    assert!(t.iter().any(|x| x == "UG-81 inside limit −15.625 mm"), "{t:?}");
     assert!(t.iter().any(|x| x == "90") && t.iter().any(|x| x == "0"));
-    assert!(
-        d.caption.contains("1 of 2 measured points outside"),
-        "{}",
-        d.caption
-    );
+    assert!(d.caption.contains("1 of 2 measured points outside"), "{}", d.caption);
 }

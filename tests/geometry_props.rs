@@ -4,27 +4,15 @@ use knuckle::geometry::{properties, HeadShape, HeadSpec, NamedTorisphere, Profil
 use proptest::prelude::*;
 
 fn spec(shape: HeadShape, d: f64) -> HeadSpec {
-    HeadSpec {
-        shape,
-        inside_diameter: d,
-        straight_flange: 30.0,
-        thickness: 10.0,
-        density: 7850.0,
-    }
+    HeadSpec { shape, inside_diameter: d, straight_flange: 30.0, thickness: 10.0, density: 7850.0 }
 }
 
 fn shapes(d: f64, k: f64, f: f64, kn: f64) -> Vec<HeadShape> {
     vec![
         HeadShape::Ellipsoidal { aspect_ratio: k },
-        HeadShape::Torispherical {
-            crown_radius: f * d,
-            knuckle_radius: kn * d,
-        },
+        HeadShape::Torispherical { crown_radius: f * d, knuckle_radius: kn * d },
         HeadShape::Hemispherical,
-        HeadShape::Conical {
-            small_diameter: 0.2 * d,
-            half_apex_angle: 0.6,
-        },
+        HeadShape::Conical { small_diameter: 0.2 * d, half_apex_angle: 0.6 },
         NamedTorisphere::Din28013.shape(d, 10.0),
     ]
 }

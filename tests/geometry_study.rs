@@ -1,8 +1,6 @@
 //! The head study: shapes, required thicknesses, units and tables.
 
-use knuckle::geometry::{
-    head_study, study_table_markdown, study_table_text, StudyInput, StudyReport,
-};
+use knuckle::geometry::{head_study, study_table_markdown, study_table_text, StudyInput, StudyReport};
 
 fn design_input() -> StudyInput {
     StudyInput {
@@ -20,26 +18,14 @@ fn study_compares_seven_shapes_shallowest_first() {
     let rows = head_study(&StudyInput::new(2500.0)).unwrap();
     let names: Vec<&str> = rows.iter().map(|r| r.shape.as_str()).collect();
     assert_eq!(rows.len(), 7);
-    for key in [
-        "2:1-ellipsoidal",
-        "2:1-equivalent",
-        "6%-knuckle",
-        "80-10",
-        "din-28011",
-        "din-28013",
-        "hemispherical",
-    ] {
+    for key in ["2:1-ellipsoidal", "2:1-equivalent", "6%-knuckle", "80-10", "din-28011", "din-28013", "hemispherical"] {
         assert!(names.contains(&key), "{key} missing from {names:?}");
     }
-    assert!(rows
-        .windows(2)
-        .all(|w| w[0].inside_depth <= w[1].inside_depth));
+    assert!(rows.windows(2).all(|w| w[0].inside_depth <= w[1].inside_depth));
     assert_eq!(names.first(), Some(&"6%-knuckle"));
     assert_eq!(names.last(), Some(&"hemispherical"));
     // Without thickness there is no mass and the blank is the inside surface.
-    assert!(rows
-        .iter()
-        .all(|r| r.mass.is_none() && r.thickness.is_none()));
+    assert!(rows.iter().all(|r| r.mass.is_none() && r.thickness.is_none()));
 }
 
 #[test]
@@ -90,11 +76,7 @@ fn required_thicknesses_follow_the_division_1_formulas() {
     // Nominal = required + CA, and a mass is given.
     for r in &rows {
         let nominal = r.thickness.unwrap();
-        assert!(
-            (nominal - r.required_thickness.unwrap() - 3.0).abs() < 1e-9,
-            "{}",
-            r.shape
-        );
+        assert!((nominal - r.required_thickness.unwrap() - 3.0).abs() < 1e-9, "{}", r.shape);
         assert!(r.mass.unwrap() > 0.0);
     }
     // The 6 %-knuckle head is defined on Do = D + 2·t, which the study solves
@@ -107,10 +89,7 @@ fn required_thicknesses_follow_the_division_1_formulas() {
 
 #[test]
 fn given_thickness_is_used_for_every_head() {
-    let input = StudyInput {
-        thickness: Some(14.0),
-        ..design_input()
-    };
+    let input = StudyInput { thickness: Some(14.0), ..design_input() };
     let rows = head_study(&input).unwrap();
     assert!(rows.iter().all(|r| r.thickness == Some(14.0)));
     let din = rows.iter().find(|r| r.shape == "din-28011").unwrap();
@@ -123,22 +102,10 @@ fn incomplete_or_bad_design_data_is_an_error() {
     input.pressure = Some(1.0);
     let err = head_study(&input).unwrap_err().to_string();
     assert!(err.contains("together"), "{err}");
-    let input = StudyInput {
-        efficiency: Some(1.2),
-        ..design_input()
-    };
-    assert!(head_study(&input)
-        .unwrap_err()
-        .to_string()
-        .contains("joint efficiency"));
-    let input = StudyInput {
-        thickness: Some(2.0),
-        ..design_input()
-    };
-    assert!(head_study(&input)
-        .unwrap_err()
-        .to_string()
-        .contains("corrosion allowance"));
+    let input = StudyInput { efficiency: Some(1.2), ..design_input() };
+    assert!(head_study(&input).unwrap_err().to_string().contains("joint efficiency"));
+    let input = StudyInput { thickness: Some(2.0), ..design_input() };
+    assert!(head_study(&input).unwrap_err().to_string().contains("corrosion allowance"));
     assert!(head_study(&StudyInput::new(f64::NAN)).is_err());
     assert!(head_study(&StudyInput::new(0.0)).is_err());
 }
@@ -153,18 +120,12 @@ fn tables_are_aligned_and_complete() {
     // Right-aligned numbers: every body line ends at the same column as the
     // header's last column.
     let width = lines[0].chars().count();
-    assert!(
-        lines[2..].iter().all(|l| l.chars().count() == width),
-        "{text}"
-    );
+    assert!(lines[2..].iter().all(|l| l.chars().count() == width), "{text}");
     for r in &rows {
         assert!(text.contains(&r.shape));
     }
     let md = study_table_markdown(&rows);
     assert_eq!(md.lines().count(), 2 + rows.len());
     assert!(md.lines().nth(1).unwrap().starts_with("| :--- | ---: |"));
-    assert_eq!(
-        text,
-        study_table_text(&head_study(&design_input()).unwrap())
-    );
+    assert_eq!(text, study_table_text(&head_study(&design_input()).unwrap()));
 }

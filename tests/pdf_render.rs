@@ -32,10 +32,7 @@ fn render(md: &str) -> Vec<u8> {
 fn page_texts(pdf: &[u8]) -> Vec<String> {
     let doc = Document::load_mem(pdf).expect("the output parses as PDF");
     let pages = doc.get_pages();
-    pages
-        .keys()
-        .map(|n| doc.extract_text(&[*n]).expect("text extracts"))
-        .collect()
+    pages.keys().map(|n| doc.extract_text(&[*n]).expect("text extracts")).collect()
 }
 
 /// Text with all white space removed, so that checks do not depend on how a
@@ -66,28 +63,14 @@ fn head_drawing() -> Drawing {
         height: 80.0,
         caption: "Head profile".to_string(),
         shapes: vec![
-            Shape::Polyline {
-                points: profile,
-                stroke: Stroke::solid(0.5),
-                closed: false,
-            },
+            Shape::Polyline { points: profile, stroke: Stroke::solid(0.5), closed: false },
             Shape::Polyline {
                 points: vec![(60.0, 5.0), (60.0, 78.0)],
                 stroke: Stroke::dashed(0.25, 3.0, 1.5).grey(0.4),
                 closed: false,
             },
-            Shape::Text {
-                at: (112.0, 60.0),
-                size: 8.0,
-                text: "r = 0.06·D".to_string(),
-                anchor: Anchor::Start,
-            },
-            Shape::Text {
-                at: (60.0, 12.0),
-                size: 8.0,
-                text: "L = D".to_string(),
-                anchor: Anchor::Middle,
-            },
+            Shape::Text { at: (112.0, 60.0), size: 8.0, text: "r = 0.06·D".to_string(), anchor: Anchor::Start },
+            Shape::Text { at: (60.0, 12.0), size: 8.0, text: "L = D".to_string(), anchor: Anchor::Middle },
         ],
     }
 }
@@ -179,14 +162,12 @@ fn text_of_headings_tables_and_symbols_is_extractable() {
 
     if let Ok(path) = std::env::var("KNUCKLE_SAMPLE_PDF") {
         std::fs::write(&path, &pdf).expect("sample written");
-        let letter = markdown_to_pdf(&sample_markdown(), &figures, &options(Paper::Letter))
-            .expect("renders on Letter");
+        let letter = markdown_to_pdf(&sample_markdown(), &figures, &options(Paper::Letter)).expect("renders on Letter");
         std::fs::write(format!("{path}.letter.pdf"), letter).expect("sample written");
         let start = std::time::Instant::now();
         let runs = 20;
         for _ in 0..runs {
-            let again = markdown_to_pdf(&sample_markdown(), &figures, &options(Paper::A4))
-                .expect("renders");
+            let again = markdown_to_pdf(&sample_markdown(), &figures, &options(Paper::A4)).expect("renders");
             assert_eq!(again, pdf);
         }
         eprintln!(
@@ -208,11 +189,7 @@ fn every_page_has_the_running_header_and_footer() {
         assert!(has(page, "KN-0042 Receiver vessel V-101"), "page {}", i + 1);
         assert!(has(page, "Revision B"), "page {}", i + 1);
         assert!(has(page, "Digest 1a2b3c4d5e6f"), "page {}", i + 1);
-        assert!(
-            has(page, &format!("Page {} of {n}", i + 1)),
-            "page {}",
-            i + 1
-        );
+        assert!(has(page, &format!("Page {} of {n}", i + 1)), "page {}", i + 1);
     }
 }
 
@@ -255,32 +232,17 @@ fn paper_size_sets_the_media_box() {
     let letter = markdown_to_pdf(md, &BTreeMap::new(), &options(Paper::Letter)).expect("renders");
     // ISO 216: A4 is 210 mm x 297 mm = 595.28 pt x 841.89 pt (1 pt = 25.4/72 mm).
     let b = &media_boxes(&a4)[0];
-    assert!(
-        (b[2] - 595.28).abs() < 0.05 && (b[3] - 841.89).abs() < 0.05,
-        "{b:?}"
-    );
+    assert!((b[2] - 595.28).abs() < 0.05 && (b[3] - 841.89).abs() < 0.05, "{b:?}");
     // US Letter is 8.5 in x 11 in = 612 pt x 792 pt.
     let b = &media_boxes(&letter)[0];
-    assert!(
-        (b[2] - 612.0).abs() < 0.05 && (b[3] - 792.0).abs() < 0.05,
-        "{b:?}"
-    );
+    assert!((b[2] - 612.0).abs() < 0.05 && (b[3] - 792.0).abs() < 0.05, "{b:?}");
 }
 
 #[test]
 fn a_missing_figure_is_an_error_that_names_it() {
-    let err = markdown_to_pdf(
-        "Text\n\n![Nozzle detail](nozzle-n1)\n",
-        &BTreeMap::new(),
-        &options(Paper::A4),
-    )
-    .expect_err("must fail");
-    assert_eq!(
-        err,
-        PdfError::UnknownFigure {
-            name: "nozzle-n1".to_string()
-        }
-    );
+    let err = markdown_to_pdf("Text\n\n![Nozzle detail](nozzle-n1)\n", &BTreeMap::new(), &options(Paper::A4))
+        .expect_err("must fail");
+    assert_eq!(err, PdfError::UnknownFigure { name: "nozzle-n1".to_string() });
     assert!(err.to_string().contains("nozzle-n1"));
 }
 
@@ -301,9 +263,8 @@ fn a_forced_page_break_starts_a_new_page() {
     assert!(has(&two[0], "Alpha") && !has(&two[0], "Beta"));
     assert!(has(&two[1], "Beta"));
     // A break at the very end, or two in a row, adds no empty page.
-    let trailing = page_texts(&render(
-        "Alpha\n\n<!-- page-break -->\n\n<!-- page-break -->\n\nBeta\n\n<!-- page-break -->\n",
-    ));
+    let trailing =
+        page_texts(&render("Alpha\n\n<!-- page-break -->\n\n<!-- page-break -->\n\nBeta\n\n<!-- page-break -->\n"));
     assert_eq!(trailing.len(), 2);
 }
 
@@ -321,11 +282,7 @@ fn a_long_table_repeats_its_head_on_every_page() {
     // Every row is printed exactly once.
     let all = squash(&pages.concat());
     for i in 0..150 {
-        assert_eq!(
-            all.matches(&format!("N{i}DN{}", 50 + i)).count(),
-            1,
-            "row {i}"
-        );
+        assert_eq!(all.matches(&format!("N{i}DN{}", 50 + i)).count(), 1, "row {i}");
     }
 }
 
@@ -340,10 +297,7 @@ fn a_heading_is_never_left_alone_at_the_bottom_of_a_page() {
         }
         md.push_str("## Heading to keep\n\nFirst words after the heading.\n");
         let pages = page_texts(&render(&md));
-        let page = pages
-            .iter()
-            .find(|p| has(p, "Heading to keep"))
-            .expect("heading printed");
+        let page = pages.iter().find(|p| has(p, "Heading to keep")).expect("heading printed");
         assert!(has(page, "First words after the heading"), "n = {n}");
     }
 }
@@ -352,28 +306,18 @@ fn a_heading_is_never_left_alone_at_the_bottom_of_a_page() {
 fn document_information_is_written_and_not_labelled_pdf_x() {
     let pdf = render("# T\n");
     let doc = Document::load_mem(&pdf).expect("parses");
-    let info_id = doc
-        .trailer
-        .get(b"Info")
-        .and_then(Object::as_reference)
-        .expect("info");
+    let info_id = doc.trailer.get(b"Info").and_then(Object::as_reference).expect("info");
     let info = doc.get_dictionary(info_id).expect("info dictionary");
     let text = |key: &[u8]| -> String {
         let bytes = info.get(key).and_then(Object::as_str).expect("string");
         if bytes.starts_with(&[0xFE, 0xFF]) {
-            let units: Vec<u16> = bytes[2..]
-                .chunks(2)
-                .map(|c| u16::from_be_bytes([c[0], c[1]]))
-                .collect();
+            let units: Vec<u16> = bytes[2..].chunks(2).map(|c| u16::from_be_bytes([c[0], c[1]])).collect();
             String::from_utf16(&units).expect("utf-16")
         } else {
             String::from_utf8(bytes.to_vec()).expect("utf-8")
         }
     };
-    assert_eq!(
-        text(b"Title"),
-        "Receiver vessel V-101 — calculation package"
-    );
+    assert_eq!(text(b"Title"), "Receiver vessel V-101 — calculation package");
     assert_eq!(text(b"Author"), "A. Engineer");
     assert_eq!(text(b"Subject"), "Internal pressure design");
     assert_eq!(text(b"Keywords"), "pressure vessel, shell");
@@ -381,11 +325,7 @@ fn document_information_is_written_and_not_labelled_pdf_x() {
     assert_eq!(text(b"ModDate"), "D:20240315000000+00'00'");
     assert!(info.get(b"GTS_PDFXVersion").is_err());
     assert!(doc.catalog().expect("catalog").get(b"Metadata").is_err());
-    let id = doc
-        .trailer
-        .get(b"ID")
-        .and_then(Object::as_array)
-        .expect("id");
+    let id = doc.trailer.get(b"ID").and_then(Object::as_array).expect("id");
     assert_eq!(id.len(), 2);
 }
 
@@ -397,17 +337,11 @@ fn figures_are_drawn_as_vectors_with_dashes_and_labels() {
     let doc = Document::load_mem(&pdf).expect("parses");
     let page = *doc.get_pages().values().next().expect("a page");
     let content = doc.get_and_decode_page_content(page).expect("content");
-    let ops: Vec<&str> = content
-        .operations
-        .iter()
-        .map(|o| o.operator.as_str())
-        .collect();
+    let ops: Vec<&str> = content.operations.iter().map(|o| o.operator.as_str()).collect();
     // A dash pattern with entries is set for the centre line (ISO 32000-1, 8.4.3.6).
-    assert!(content.operations.iter().any(|o| o.operator == "d"
-        && o.operands
-            .first()
-            .and_then(|a| a.as_array().ok())
-            .is_some_and(|a| !a.is_empty())));
+    assert!(content.operations.iter().any(
+        |o| o.operator == "d" && o.operands.first().and_then(|a| a.as_array().ok()).is_some_and(|a| !a.is_empty())
+    ));
     // The sampled arcs are one path of many segments.
     assert!(ops.iter().filter(|o| **o == "l").count() >= 80);
     let text = page_texts(&pdf).concat();
@@ -421,19 +355,11 @@ fn hostile_markdown_renders_without_panicking() {
     let long_word = "x".repeat(5000);
     let wide_table = format!(
         "|{}|\n|{}|\n|{}|\n",
-        (0..30)
-            .map(|i| format!("c{i}"))
-            .collect::<Vec<_>>()
-            .join("|"),
+        (0..30).map(|i| format!("c{i}")).collect::<Vec<_>>().join("|"),
         vec!["---"; 30].join("|"),
-        (0..30)
-            .map(|_| long_word.as_str())
-            .collect::<Vec<_>>()
-            .join("|"),
+        (0..30).map(|_| long_word.as_str()).collect::<Vec<_>>().join("|"),
     );
-    let deep_list: String = (0..40)
-        .map(|i| format!("{}- level {i}\n", "  ".repeat(i)))
-        .collect();
+    let deep_list: String = (0..40).map(|i| format!("{}- level {i}\n", "  ".repeat(i))).collect();
     let deep_quote = format!("{} deep\n", ">".repeat(60));
     let tall_cell = format!("| a | b |\n|---|---|\n| {} | x |\n", "word ".repeat(8000));
     let inputs = [
@@ -459,10 +385,6 @@ fn hostile_markdown_renders_without_panicking() {
     ];
     for md in &inputs {
         let pdf = render(md);
-        assert!(
-            Document::load_mem(&pdf).is_ok(),
-            "unreadable PDF for {:?}",
-            md.chars().take(40).collect::<String>()
-        );
+        assert!(Document::load_mem(&pdf).is_ok(), "unreadable PDF for {:?}", md.chars().take(40).collect::<String>());
     }
 }

@@ -41,31 +41,25 @@ fn inputs() -> impl Strategy<Value = Inputs> {
         0.06f64..0.3,
         any::<bool>(),
     )
-        .prop_map(
-            |(kind, p, d, s, e, ca, aspect, angle, knuckle_frac, outside)| Inputs {
-                kind,
-                p,
-                d,
-                s,
-                e,
-                ca,
-                aspect,
-                angle,
-                knuckle_frac,
-                outside,
-            },
-        )
+        .prop_map(|(kind, p, d, s, e, ca, aspect, angle, knuckle_frac, outside)| Inputs {
+            kind,
+            p,
+            d,
+            s,
+            e,
+            ca,
+            aspect,
+            angle,
+            knuckle_frac,
+            outside,
+        })
 }
 
 fn text(i: &Inputs, units: &str) -> String {
     // Torispheres are only given on an inside diameter here (their named and
     // explicit radii are inside radii); the others take either basis.
     let outside = i.outside && i.kind != 4 && i.kind != 5 && i.kind != 6;
-    let basis = if outside {
-        "outside_diameter"
-    } else {
-        "inside_diameter"
-    };
+    let basis = if outside { "outside_diameter" } else { "inside_diameter" };
     let kind = KINDS[i.kind]
         .replace("ASPECT", &format!("{}", i.aspect))
         .replace("CROWN", &format!("{}", i.d))
@@ -79,9 +73,7 @@ fn text(i: &Inputs, units: &str) -> String {
 }
 
 fn result(i: &Inputs) -> Option<ComponentResult> {
-    evaluate("p.toml", &text(i, "SI"))
-        .ok()
-        .map(|ev| ev.calculation.components[0].clone())
+    evaluate("p.toml", &text(i, "SI")).ok().map(|ev| ev.calculation.components[0].clone())
 }
 
 proptest! {

@@ -30,31 +30,19 @@ pub struct CompileArgs {
 
 /// The outcome of one case.
 enum Outcome {
-    Written {
-        stem: String,
-        acceptable: bool,
-        digest: String,
-    },
+    Written { stem: String, acceptable: bool, digest: String },
     InputError(String),
 }
 
 /// Parses `--format`.
 pub fn parse_formats(s: &str) -> Result<Formats, String> {
-    let mut f = Formats {
-        md: false,
-        pdf: false,
-        json: false,
-    };
+    let mut f = Formats { md: false, pdf: false, json: false };
     for part in s.split(',').map(str::trim).filter(|p| !p.is_empty()) {
         match part {
             "md" => f.md = true,
             "pdf" => f.pdf = true,
             "json" => f.json = true,
-            other => {
-                return Err(format!(
-                    "unknown format `{other}`; expected a comma-separated list of md, pdf, json"
-                ))
-            }
+            other => return Err(format!("unknown format `{other}`; expected a comma-separated list of md, pdf, json")),
         }
     }
     if !(f.md || f.pdf || f.json) {
@@ -77,9 +65,7 @@ fn compile_one(case: &Path, out: &Path, templates: &TemplateSet, options: &Optio
     let file = case.display().to_string();
     let source = match std::fs::read_to_string(case) {
         Ok(s) => s,
-        Err(e) => {
-            return Outcome::InputError(format!("error: cannot read case file `{file}`: {e}\n"))
-        }
+        Err(e) => return Outcome::InputError(format!("error: cannot read case file `{file}`: {e}\n")),
     };
     let ev = match crate::pipeline::evaluate(&file, &source) {
         Ok(ev) => ev,
@@ -91,21 +77,17 @@ fn compile_one(case: &Path, out: &Path, templates: &TemplateSet, options: &Optio
         Err(e) => return Outcome::InputError(format!("error: {file}: {e}\n")),
     };
     match write_package(out, &pkg) {
-        Ok(()) => Outcome::Written {
-            stem: pkg.stem,
-            acceptable: pkg.acceptable,
-            digest: pkg.digest,
-        },
-        Err(e) => Outcome::InputError(format!(
-            "error: {file}: cannot write the package into `{}`: {e}\n",
-            out.display()
-        )),
+        Ok(()) => Outcome::Written { stem: pkg.stem, acceptable: pkg.acceptable, digest: pkg.digest },
+        Err(e) => {
+            Outcome::InputError(format!("error: {file}: cannot write the package into `{}`: {e}\n", out.display()))
+        }
     }
 }
 
 /// Geometry rows, figures and JSON additions for the package.
-pub fn additions_for(_ev: &crate::pipeline::Evaluated) -> Additions {
-    Additions::default()
+pub fn additions_for(ev: &crate::pipeline::Evaluated) -> Additions {
+    let d = &ev.design.document;
+    crate::package::heads::additions(ev, &crate::package::manifest::package_stem(&d.number, &d.revision))
 }
 
 /// Writes every file atomically, the manifest last: a folder whose manifest
@@ -118,10 +100,7 @@ pub fn write_package(out: &Path, pkg: &package::Package) -> std::io::Result<()> 
         }
         crate::fsio::write_atomic(&path, bytes)?;
     }
-    crate::fsio::write_atomic(
-        &out.join(pkg.manifest_name()),
-        pkg.manifest.to_json().as_bytes(),
-    )
+    crate::fsio::write_atomic(&out.join(pkg.manifest_name()), pkg.manifest.to_json().as_bytes())
 }
 
 /// Runs `compile`.
@@ -151,10 +130,7 @@ pub fn run(a: &CompileArgs) -> i32 {
         None => TemplateSet::default(),
     };
     if let Err(e) = std::fs::create_dir_all(&a.out) {
-        eprintln!(
-            "error: cannot create the output folder `{}`: {e}",
-            a.out.display()
-        );
+        eprintln!("error: cannot create the output folder `{}`: {e}", a.out.display());
         return EXIT_INPUT;
     }
     let options = Options { formats, paper };
@@ -182,22 +158,9 @@ pub fn run(a: &CompileArgs) -> i32 {
     let mut code = EXIT_OK;
     for (case, o) in a.cases.iter().zip(outcomes) {
         match o {
-            Outcome::Written {
-                stem,
-                acceptable,
-                digest,
-            } => {
-                let status = if acceptable {
-                    "acceptable"
-                } else {
-                    "NOT ACCEPTABLE"
-                };
-                println!(
-                    "{}: {status}, wrote {}/{stem}.* (digest {})",
-                    case.display(),
-                    a.out.display(),
-                    &digest[..12]
-                );
+            Outcome::Written { stem, acceptable, digest } => {
+                let status = if acceptable { "acceptable" } else { "NOT ACCEPTABLE" };
+                println!("{}: {status}, wrote {}/{stem}.* (digest {})", case.display(), a.out.display(), &digest[..12]);
                 if !acceptable && code == EXIT_OK {
                     code = EXIT_NOT_ACCEPTABLE;
                 }

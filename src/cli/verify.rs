@@ -61,18 +61,12 @@ pub fn run(a: &VerifyArgs) -> i32 {
     let manifests = match find_manifests(&a.dir) {
         Ok(m) => m,
         Err(e) => {
-            eprintln!(
-                "error: cannot read the package folder `{}`: {e}",
-                a.dir.display()
-            );
+            eprintln!("error: cannot read the package folder `{}`: {e}", a.dir.display());
             return EXIT_INPUT;
         }
     };
     if manifests.is_empty() {
-        eprintln!(
-            "error: no package manifest (*.manifest.json) in `{}`",
-            a.dir.display()
-        );
+        eprintln!("error: no package manifest (*.manifest.json) in `{}`", a.dir.display());
         return EXIT_NOT_ACCEPTABLE;
     }
     let recompiled = match &a.case {
@@ -99,14 +93,7 @@ pub fn run(a: &VerifyArgs) -> i32 {
                 },
                 None => TemplateSet::default(),
             };
-            let opts = Options {
-                formats: package::Formats {
-                    md: true,
-                    pdf: false,
-                    json: true,
-                },
-                ..Options::default()
-            };
+            let opts = Options { formats: package::Formats { md: true, pdf: false, json: true }, ..Options::default() };
             match package::compile(&ev, &templates, &super::compile::additions_for(&ev), &opts) {
                 Ok(p) => Some(p),
                 Err(e) => {
@@ -143,12 +130,8 @@ pub fn run(a: &VerifyArgs) -> i32 {
                         );
                         for (name, bytes) in &p.files {
                             if let Some(entry) = m.files.iter().find(|f| &f.name == name) {
-                                let same =
-                                    crate::package::manifest::sha256_hex(bytes) == entry.sha256;
-                                println!(
-                                    "  recompiled {name:<37} {}",
-                                    if same { "matches" } else { "DIFFERS" }
-                                );
+                                let same = crate::package::manifest::sha256_hex(bytes) == entry.sha256;
+                                println!("  recompiled {name:<37} {}", if same { "matches" } else { "DIFFERS" });
                                 all_ok &= same;
                             }
                         }

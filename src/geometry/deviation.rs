@@ -96,12 +96,7 @@ pub fn deviation(actual: &Profile, reference: &Profile) -> Deviation {
     let samples: Vec<f64> = (0..=n).map(|i| f(end * i as f64 / n as f64)).collect();
     let step = end / n as f64;
     let (s_out, v_out) = refine_extreme(&samples, step, end, &f);
-    let (s_in, v_in) = refine_extreme(
-        &samples.iter().map(|v| -v).collect::<Vec<_>>(),
-        step,
-        end,
-        &|s| -f(s),
-    );
+    let (s_in, v_in) = refine_extreme(&samples.iter().map(|v| -v).collect::<Vec<_>>(), step, end, &|s| -f(s));
     let p_out = actual.point(s_out);
     let p_in = actual.point(s_in);
     Deviation {
@@ -122,16 +117,8 @@ fn refine_extreme(samples: &[f64], step: f64, end: f64, f: &dyn Fn(f64) -> f64) 
     let last = samples.len() - 1;
     let mut peaks: Vec<usize> = (0..=last)
         .filter(|&i| {
-            let left = if i > 0 {
-                samples[i - 1]
-            } else {
-                f64::NEG_INFINITY
-            };
-            let right = if i < last {
-                samples[i + 1]
-            } else {
-                f64::NEG_INFINITY
-            };
+            let left = if i > 0 { samples[i - 1] } else { f64::NEG_INFINITY };
+            let right = if i < last { samples[i + 1] } else { f64::NEG_INFINITY };
             samples[i] >= left && samples[i] >= right
         })
         .collect();
@@ -169,19 +156,11 @@ pub fn deviation_curve(actual: &Profile, reference: &Profile, n: usize) -> Vec<(
 /// has a negative radius, lies radially beyond D/2 plus the UG-81 outside
 /// allowance, lies below the end of the straight flange (it is then on the
 /// shell, not the head), or lies higher than the crown plus that allowance.
-pub fn point_deviations(
-    profile: &Profile,
-    points: &[(f64, f64)],
-) -> Result<Vec<PointDeviation>, GeometryError> {
+pub fn point_deviations(profile: &Profile, points: &[(f64, f64)]) -> Result<Vec<PointDeviation>, GeometryError> {
     let d = profile.inside_diameter();
     let (allow, _) = ug81_limits(d);
     let out_of_range =
-        |index: usize, x: f64, z: f64, detail: String| GeometryError::PointOutOfRange {
-            index,
-            x,
-            z,
-            detail,
-        };
+        |index: usize, x: f64, z: f64, detail: String| GeometryError::PointOutOfRange { index, x, z, detail };
     points
         .iter()
         .enumerate()
@@ -224,10 +203,7 @@ pub fn point_deviations(
                     i,
                     x,
                     z,
-                    format!(
-                        "the point is above the crown plus 1.25 % of D (z = {:.3} mm)",
-                        profile.depth() + allow
-                    ),
+                    format!("the point is above the crown plus 1.25 % of D (z = {:.3} mm)", profile.depth() + allow),
                 ));
             }
             let near = profile.nearest(x, z);

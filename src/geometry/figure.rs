@@ -81,13 +81,7 @@ impl PlotData {
     pub fn from_points(points: &[PointDeviation]) -> PlotData {
         PlotData {
             curve: Vec::new(),
-            points: points
-                .iter()
-                .map(|p| PlotPoint {
-                    angle: p.angle,
-                    deviation: p.deviation,
-                })
-                .collect(),
+            points: points.iter().map(|p| PlotPoint { angle: p.angle, deviation: p.deviation }).collect(),
         }
     }
 
@@ -95,30 +89,18 @@ impl PlotData {
     /// returned by [`super::deviation_curve`].
     pub fn from_curve(curve: &[(f64, f64, f64)]) -> PlotData {
         PlotData {
-            curve: curve
-                .iter()
-                .map(|&(angle, _, deviation)| PlotPoint { angle, deviation })
-                .collect(),
+            curve: curve.iter().map(|&(angle, _, deviation)| PlotPoint { angle, deviation }).collect(),
             points: Vec::new(),
         }
     }
 }
 
 fn line(points: Vec<(f64, f64)>, stroke: Stroke) -> Shape {
-    Shape::Polyline {
-        points,
-        stroke,
-        closed: false,
-    }
+    Shape::Polyline { points, stroke, closed: false }
 }
 
 fn text(at: (f64, f64), size: f64, s: impl Into<String>, anchor: Anchor) -> Shape {
-    Shape::Text {
-        at,
-        size,
-        text: s.into(),
-        anchor,
-    }
+    Shape::Text { at, size, text: s.into(), anchor }
 }
 
 /// A dimension value for a drawing: whole millimetres when the value is
@@ -136,11 +118,7 @@ fn dim(v: f64) -> String {
 /// 0.6 mm, gap 1 mm).
 fn dash_dot(a: (f64, f64), b: (f64, f64), width: f64) -> Vec<Shape> {
     let len = (b.0 - a.0).hypot(b.1 - a.1);
-    let (ux, uy) = if len > 0.0 {
-        ((b.0 - a.0) / len, (b.1 - a.1) / len)
-    } else {
-        (0.0, 0.0)
-    };
+    let (ux, uy) = if len > 0.0 { ((b.0 - a.0) / len, (b.1 - a.1) / len) } else { (0.0, 0.0) };
     let pattern = [(6.0, 1.0), (0.6, 1.0)];
     let mut out = Vec::new();
     let mut pos = 0.0;
@@ -148,13 +126,7 @@ fn dash_dot(a: (f64, f64), b: (f64, f64), width: f64) -> Vec<Shape> {
     while pos < len {
         let (on, off) = pattern[k % 2];
         let end = (pos + on).min(len);
-        out.push(line(
-            vec![
-                (a.0 + ux * pos, a.1 + uy * pos),
-                (a.0 + ux * end, a.1 + uy * end),
-            ],
-            Stroke::solid(width),
-        ));
+        out.push(line(vec![(a.0 + ux * pos, a.1 + uy * pos), (a.0 + ux * end, a.1 + uy * end)], Stroke::solid(width)));
         pos = end + off;
         k += 1;
     }
@@ -164,21 +136,10 @@ fn dash_dot(a: (f64, f64), b: (f64, f64), width: f64) -> Vec<Shape> {
 /// An open arrowhead with its tip at `tip`, pointing along (dx, dy).
 fn arrow(tip: (f64, f64), dir: (f64, f64)) -> Shape {
     let len = dir.0.hypot(dir.1);
-    let (ux, uy) = if len > 0.0 {
-        (dir.0 / len, dir.1 / len)
-    } else {
-        (1.0, 0.0)
-    };
+    let (ux, uy) = if len > 0.0 { (dir.0 / len, dir.1 / len) } else { (1.0, 0.0) };
     let (l, w) = (2.2, 0.7);
     let back = (tip.0 - ux * l, tip.1 - uy * l);
-    line(
-        vec![
-            (back.0 - uy * w, back.1 + ux * w),
-            tip,
-            (back.0 + uy * w, back.1 - ux * w),
-        ],
-        Stroke::solid(THIN),
-    )
+    line(vec![(back.0 - uy * w, back.1 + ux * w), tip, (back.0 + uy * w, back.1 - ux * w)], Stroke::solid(THIN))
 }
 
 /// Samples a profile segment at `n` + 1 points offset by `off` along the
@@ -198,8 +159,7 @@ fn sample_segment(seg: &Segment, off: f64, n: usize) -> Vec<(f64, f64)> {
 fn sample_profile(profile: &Profile, off: f64) -> Vec<(f64, f64)> {
     let mut pts = Vec::new();
     for seg in profile.segments() {
-        let zero_corner =
-            matches!(seg, Segment::Arc { radius, .. } if *radius == 0.0) && off == 0.0;
+        let zero_corner = matches!(seg, Segment::Arc { radius, .. } if *radius == 0.0) && off == 0.0;
         let n = if zero_corner { 1 } else { 160 };
         let s = sample_segment(seg, off, n);
         let skip = usize::from(!pts.is_empty());
@@ -279,11 +239,7 @@ pub fn profile_drawing(
     let sf = profile.straight_flange();
     let inner = sample_profile(profile, 0.0);
     let outer = sample_profile(profile, t);
-    let top = outer
-        .iter()
-        .chain(inner.iter())
-        .map(|p| p.1)
-        .fold(profile.depth(), f64::max);
+    let top = outer.iter().chain(inner.iter()).map(|p| p.1).fold(profile.depth(), f64::max);
     let half_width = big_r + t;
 
     let (left, right) = (24.0, 30.0);
@@ -297,52 +253,24 @@ pub fn profile_drawing(
     let mut legend: Vec<(Key, String)> = Vec::new();
 
     // Title and scale.
-    shapes.push(text(
-        (left - 16.0, 7.0),
-        TITLE_TEXT,
-        labels.title.clone(),
-        Anchor::Start,
-    ));
-    shapes.push(text(
-        (WIDTH - 4.0, 7.0),
-        DIM_TEXT,
-        format!("scale 1:{}", dim(1.0 / scale)),
-        Anchor::End,
-    ));
+    shapes.push(text((left - 16.0, 7.0), TITLE_TEXT, labels.title.clone(), Anchor::Start));
+    shapes.push(text((WIDTH - 4.0, 7.0), DIM_TEXT, format!("scale 1:{}", dim(1.0 / scale)), Anchor::End));
 
     // Centre line and tangent line.
     shapes.extend(dash_dot((cx, 11.0), (cx, y_bottom + 4.0), THIN));
     let x_dim_h = fr.at((half_width, 0.0)).0 + 9.0;
     let x_sf = fr.at((-half_width, 0.0)).0 - 5.0;
     shapes.push(line(
-        vec![
-            (
-                if sf > 0.0 {
-                    x_sf - 1.5
-                } else {
-                    fr.at((-half_width, 0.0)).0
-                },
-                y_tl,
-            ),
-            (x_dim_h + 1.5, y_tl),
-        ],
+        vec![(if sf > 0.0 { x_sf - 1.5 } else { fr.at((-half_width, 0.0)).0 }, y_tl), (x_dim_h + 1.5, y_tl)],
         Stroke::dashed(THIN, 3.0, 1.5).grey(0.35),
     ));
-    shapes.push(text(
-        (x_dim_h + 1.5, y_tl + 3.2),
-        DIM_TEXT,
-        "tangent line",
-        Anchor::Start,
-    ));
+    shapes.push(text((x_dim_h + 1.5, y_tl + 3.2), DIM_TEXT, "tangent line", Anchor::Start));
 
     // The reference, dashed, under the head's own lines.
     if let Some(reference) = reference {
         let r = sample_profile(reference, 0.0);
         for half in both_halves(&r) {
-            shapes.push(line(
-                fr.all(&half),
-                Stroke::dashed(0.25, 2.0, 1.2).grey(0.3),
-            ));
+            shapes.push(line(fr.all(&half), Stroke::dashed(0.25, 2.0, 1.2).grey(0.3)));
         }
         legend.push((
             Key::Line(Stroke::dashed(0.25, 2.0, 1.2).grey(0.3)),
@@ -361,10 +289,7 @@ pub fn profile_drawing(
         if let (Some(&i_end), Some(&o_end)) = (inner.last(), outer.last()) {
             for sign in [-1.0, 1.0] {
                 shapes.push(line(
-                    vec![
-                        fr.at((sign * i_end.0, i_end.1)),
-                        fr.at((sign * o_end.0, o_end.1)),
-                    ],
+                    vec![fr.at((sign * i_end.0, i_end.1)), fr.at((sign * o_end.0, o_end.1))],
                     Stroke::solid(THICK),
                 ));
             }
@@ -373,18 +298,13 @@ pub fn profile_drawing(
             if i0.0 > 0.0 {
                 // An open cone: the wall is cut at the small end.
                 for sign in [-1.0, 1.0] {
-                    shapes.push(line(
-                        vec![fr.at((sign * i0.0, i0.1)), fr.at((sign * o0.0, o0.1))],
-                        Stroke::solid(THICK),
-                    ));
+                    shapes
+                        .push(line(vec![fr.at((sign * i0.0, i0.1)), fr.at((sign * o0.0, o0.1))], Stroke::solid(THICK)));
                 }
             }
         }
     }
-    legend.push((
-        Key::Line(Stroke::solid(THICK)),
-        format!("head wall, t = {} mm", dim(t)),
-    ));
+    legend.push((Key::Line(Stroke::solid(THICK)), format!("head wall, t = {} mm", dim(t))));
 
     // The deviation from the reference, exaggerated, on the right half. A
     // deviation already visible at the drawing scale is not exaggerated, and
@@ -398,39 +318,20 @@ pub fn profile_drawing(
             })
             .collect();
         let max_dev = curve.iter().map(|c| c.2.hypot(c.3)).fold(0.0, f64::max);
-        let factor = if max_dev * scale > 1e-4 {
-            exaggeration(max_dev * scale)
-        } else {
-            1.0
-        };
+        let factor = if max_dev * scale > 1e-4 { exaggeration(max_dev * scale) } else { 1.0 };
         if factor > 1.0 {
-            let pts: Vec<(f64, f64)> = curve
-                .iter()
-                .map(|&(qx, qz, dx, dz)| fr.at((qx + factor * dx, qz + factor * dz)))
-                .collect();
+            let pts: Vec<(f64, f64)> =
+                curve.iter().map(|&(qx, qz, dx, dz)| fr.at((qx + factor * dx, qz + factor * dz))).collect();
             shapes.push(line(pts, Stroke::solid(0.25).grey(0.5)));
             legend.push((
                 Key::Line(Stroke::solid(0.25).grey(0.5)),
-                format!(
-                    "deviation from the reference, shown ×{} (right half)",
-                    dim(factor)
-                ),
+                format!("deviation from the reference, shown ×{} (right half)", dim(factor)),
             ));
         }
         if let Some(dev) = deviation {
             let marks = [
-                (
-                    dev.max_outside,
-                    dev.at_radius_outside,
-                    dev.at_height_outside,
-                    "outside",
-                ),
-                (
-                    dev.max_inside,
-                    dev.at_radius_inside,
-                    dev.at_height_inside,
-                    "inside",
-                ),
+                (dev.max_outside, dev.at_radius_outside, dev.at_height_outside, "outside"),
+                (dev.max_inside, dev.at_radius_inside, dev.at_height_inside, "inside"),
             ];
             let mut number = 0;
             for &(value, x, z, side) in &marks {
@@ -442,18 +343,10 @@ pub fn profile_drawing(
                 let n = reference.nearest(x, z);
                 let p = fr.at((n.x + factor * (x - n.x), n.z + factor * (z - n.z)));
                 shapes.push(circle(p, 0.9));
-                shapes.push(text(
-                    (p.0 + 1.2, p.1 - 1.2),
-                    MARK_TEXT,
-                    number.to_string(),
-                    Anchor::Start,
-                ));
+                shapes.push(text((p.0 + 1.2, p.1 - 1.2), MARK_TEXT, number.to_string(), Anchor::Start));
                 legend.push((
                     Key::Marker(number),
-                    format!(
-                        "largest deviation {side} the reference: {value:.1} mm at radius {} mm",
-                        dim(x)
-                    ),
+                    format!("largest deviation {side} the reference: {value:.1} mm at radius {} mm", dim(x)),
                 ));
             }
         }
@@ -463,10 +356,7 @@ pub fn profile_drawing(
     let y_d = y_bottom + 8.0;
     let (xl, xr) = (fr.at((-big_r, 0.0)).0, fr.at((big_r, 0.0)).0);
     for x in [xl, xr] {
-        shapes.push(line(
-            vec![(x, y_bottom + 1.0), (x, y_d + 1.5)],
-            Stroke::solid(THIN),
-        ));
+        shapes.push(line(vec![(x, y_bottom + 1.0), (x, y_d + 1.5)], Stroke::solid(THIN)));
     }
     shapes.push(line(vec![(xl, y_d), (xr, y_d)], Stroke::solid(THIN)));
     shapes.push(arrow((xl, y_d), (-1.0, 0.0)));
@@ -480,10 +370,7 @@ pub fn profile_drawing(
 
     // Dimension h, right of the head, from the tangent line to the inner crown.
     let y_crown = fr.at((0.0, profile.depth())).1;
-    shapes.push(line(
-        vec![(cx, y_crown), (x_dim_h + 1.5, y_crown)],
-        Stroke::solid(THIN).grey(0.35),
-    ));
+    shapes.push(line(vec![(cx, y_crown), (x_dim_h + 1.5, y_crown)], Stroke::solid(THIN).grey(0.35)));
     shapes.extend(vertical_dimension(x_dim_h, y_crown, y_tl));
     shapes.push(text(
         (x_dim_h + 1.5, 0.5 * (y_crown + y_tl) + 1.0),
@@ -494,10 +381,7 @@ pub fn profile_drawing(
 
     // Straight flange, left of the head.
     if sf > 0.0 {
-        shapes.push(line(
-            vec![fr.at((-half_width, -sf)), (x_sf - 1.5, y_bottom)],
-            Stroke::solid(THIN),
-        ));
+        shapes.push(line(vec![fr.at((-half_width, -sf)), (x_sf - 1.5, y_bottom)], Stroke::solid(THIN)));
         shapes.extend(vertical_dimension(x_sf, y_tl, y_bottom));
         shapes.push(text(
             (x_sf - 1.5, 0.5 * (y_tl + y_bottom) + 1.0),
@@ -515,37 +399,20 @@ pub fn profile_drawing(
     for (key, label) in &legend {
         match key {
             Key::Line(stroke) => {
-                shapes.push(line(
-                    vec![(left - 16.0, y - 1.0), (left - 4.0, y - 1.0)],
-                    *stroke,
-                ));
+                shapes.push(line(vec![(left - 16.0, y - 1.0), (left - 4.0, y - 1.0)], *stroke));
             }
             Key::Marker(n) => {
                 shapes.push(circle((left - 10.0, y - 1.0), 0.9));
-                shapes.push(text(
-                    (left - 8.8, y - 2.2),
-                    MARK_TEXT,
-                    n.to_string(),
-                    Anchor::Start,
-                ));
+                shapes.push(text((left - 8.8, y - 2.2), MARK_TEXT, n.to_string(), Anchor::Start));
             }
         }
-        shapes.push(text(
-            (left - 1.0, y),
-            LEGEND_TEXT,
-            label.clone(),
-            Anchor::Start,
-        ));
+        shapes.push(text((left - 1.0, y), LEGEND_TEXT, label.clone(), Anchor::Start));
         y += 4.6;
     }
     let height = (y + 2.0).ceil();
 
     let caption = if labels.caption.is_empty() {
-        let mut c = format!(
-            "{}: section through the head at scale 1:{}",
-            labels.title,
-            dim(1.0 / scale)
-        );
+        let mut c = format!("{}: section through the head at scale 1:{}", labels.title, dim(1.0 / scale));
         if reference.is_some() {
             c.push_str(&format!("; {} dashed", labels.reference_name));
         }
@@ -557,12 +424,7 @@ pub fn profile_drawing(
     } else {
         labels.caption.clone()
     };
-    Drawing {
-        width: WIDTH,
-        height,
-        caption,
-        shapes,
-    }
+    Drawing { width: WIDTH, height, caption, shapes }
 }
 
 /// The exaggeration factor for a deviation that measures `paper` mm at the
@@ -592,10 +454,7 @@ fn vertical_dimension(x: f64, y_top: f64, y_low: f64) -> Vec<Shape> {
         ]
     } else {
         vec![
-            line(
-                vec![(x, y_top - 4.0), (x, y_low + 4.0)],
-                Stroke::solid(THIN),
-            ),
+            line(vec![(x, y_top - 4.0), (x, y_low + 4.0)], Stroke::solid(THIN)),
             arrow((x, y_top), (0.0, 1.0)),
             arrow((x, y_low), (0.0, -1.0)),
         ]
@@ -610,24 +469,13 @@ fn circle(p: (f64, f64), r: f64) -> Shape {
             (p.0 + r * a.cos(), p.1 + r * a.sin())
         })
         .collect();
-    Shape::Polyline {
-        points: pts,
-        stroke: Stroke::solid(THIN),
-        closed: true,
-    }
+    Shape::Polyline { points: pts, stroke: Stroke::solid(THIN), closed: true }
 }
 
 /// A radius leader: arrow on the arc at angle θ of the arc with centre c and
 /// radius ρ (model mm), drawn on the left half towards the centre for at most
 /// `max_len` mm of paper, with the label at its inner end.
-fn radius_leader(
-    fr: &Frame,
-    c: (f64, f64),
-    rho: f64,
-    theta: f64,
-    max_len: f64,
-    label: String,
-) -> Vec<Shape> {
+fn radius_leader(fr: &Frame, c: (f64, f64), rho: f64, theta: f64, max_len: f64, label: String) -> Vec<Shape> {
     let on_arc = (-(c.0 + rho * theta.sin()), c.1 + rho * theta.cos());
     let tip = fr.at(on_arc);
     // Direction from the arc point towards the centre, on paper (mirrored x).
@@ -642,42 +490,20 @@ fn radius_leader(
     vec![
         line(vec![inner, tip], Stroke::solid(THIN)),
         arrow(tip, (-dir.0, -dir.1)),
-        text(
-            (inner.0 + dir.0 * 1.0, inner.1 + dir.1 * 1.0 + 2.6),
-            DIM_TEXT,
-            label,
-            Anchor::Middle,
-        ),
+        text((inner.0 + dir.0 * 1.0, inner.1 + dir.1 * 1.0 + 2.6), DIM_TEXT, label, Anchor::Middle),
     ]
 }
 
-fn shape_dimensions(
-    spec: &HeadSpec,
-    profile: &Profile,
-    fr: &Frame,
-    labels: &DrawingLabels,
-) -> Vec<Shape> {
+fn shape_dimensions(spec: &HeadSpec, profile: &Profile, fr: &Frame, labels: &DrawingLabels) -> Vec<Shape> {
     let mut out = Vec::new();
     match spec.shape {
-        HeadShape::Torispherical {
-            crown_radius,
-            knuckle_radius,
-        } => {
+        HeadShape::Torispherical { crown_radius, knuckle_radius } => {
             for seg in profile.head_segments() {
-                if let Segment::Arc {
-                    center,
-                    radius,
-                    theta0,
-                    theta1,
-                    role,
-                } = *seg
-                {
+                if let Segment::Arc { center, radius, theta0, theta1, role } = *seg {
                     let (label, th, max_len) = match role {
-                        SegmentRole::Crown => (
-                            format!("{} = {}", labels.crown_radius, dim(crown_radius)),
-                            0.55 * (theta0 + theta1),
-                            22.0,
-                        ),
+                        SegmentRole::Crown => {
+                            (format!("{} = {}", labels.crown_radius, dim(crown_radius)), 0.55 * (theta0 + theta1), 22.0)
+                        }
                         _ => (
                             format!("{} = {}", labels.knuckle_radius, dim(knuckle_radius)),
                             0.5 * (theta0 + theta1),
@@ -690,28 +516,13 @@ fn shape_dimensions(
         }
         HeadShape::Hemispherical => {
             let r = 0.5 * profile.inside_diameter();
-            out.extend(radius_leader(
-                fr,
-                (0.0, 0.0),
-                r,
-                0.25 * std::f64::consts::PI,
-                20.0,
-                format!("R = {}", dim(r)),
-            ));
+            out.extend(radius_leader(fr, (0.0, 0.0), r, 0.25 * std::f64::consts::PI, 20.0, format!("R = {}", dim(r))));
         }
         HeadShape::Ellipsoidal { aspect_ratio } => {
             let p = fr.at((0.0, 0.2 * profile.depth()));
-            out.push(text(
-                (p.0 - 3.0, p.1),
-                DIM_TEXT,
-                format!("ellipse, D/2h = {aspect_ratio:.2}"),
-                Anchor::End,
-            ));
+            out.push(text((p.0 - 3.0, p.1), DIM_TEXT, format!("ellipse, D/2h = {aspect_ratio:.2}"), Anchor::End));
         }
-        HeadShape::Conical {
-            small_diameter,
-            half_apex_angle,
-        } => {
+        HeadShape::Conical { small_diameter, half_apex_angle } => {
             let p = fr.at((0.0, 0.2 * profile.depth()));
             let mut s = format!("cone, α = {:.1}°", half_apex_angle.to_degrees());
             if small_diameter > 0.0 {
@@ -744,11 +555,7 @@ fn fmt_limit(v: f64) -> String {
 
 /// Formats a tick label with as many decimals as the step needs.
 fn tick_label(v: f64, step: f64) -> String {
-    let decimals = if step >= 1.0 {
-        0
-    } else {
-        (-step.log10()).ceil() as usize
-    };
+    let decimals = if step >= 1.0 { 0 } else { (-step.log10()).ceil() as usize };
     let s = format!("{v:.decimals$}");
     if s.starts_with('-') && s[1..].chars().all(|c| c == '0' || c == '.') {
         s[1..].to_string()
@@ -764,11 +571,7 @@ fn tick_label(v: f64, step: f64) -> String {
 pub fn deviation_plot(data: &PlotData, limits: (f64, f64), labels: &DrawingLabels) -> Drawing {
     let height = 86.0;
     let (x0, x1, y0, y1) = (24.0, WIDTH - 8.0, 12.0, height - 16.0);
-    let all = data
-        .curve
-        .iter()
-        .chain(data.points.iter())
-        .filter(|p| p.deviation.is_finite());
+    let all = data.curve.iter().chain(data.points.iter()).filter(|p| p.deviation.is_finite());
     let (mut hi, mut lo) = (limits.0.abs(), -limits.1.abs());
     for p in all {
         hi = hi.max(p.deviation);
@@ -799,12 +602,7 @@ pub fn deviation_plot(data: &PlotData, limits: (f64, f64), labels: &DrawingLabel
         let x = px(deg.to_radians());
         shapes.push(line(vec![(x, y1), (x, y1 + 1.5)], Stroke::solid(THIN)));
         shapes.push(line(vec![(x, y0), (x, y1)], Stroke::solid(0.1).grey(0.8)));
-        shapes.push(text(
-            (x, y1 + 4.5),
-            DIM_TEXT,
-            format!("{deg:.0}"),
-            Anchor::Middle,
-        ));
+        shapes.push(text((x, y1 + 4.5), DIM_TEXT, format!("{deg:.0}"), Anchor::Middle));
     }
     shapes.push(text(
         (0.5 * (x0 + x1), y1 + 9.5),
@@ -819,24 +617,11 @@ pub fn deviation_plot(data: &PlotData, limits: (f64, f64), labels: &DrawingLabel
         let y = py(v);
         shapes.push(line(vec![(x0 - 1.5, y), (x0, y)], Stroke::solid(THIN)));
         shapes.push(line(vec![(x0, y), (x1, y)], Stroke::solid(0.1).grey(0.8)));
-        shapes.push(text(
-            (x0 - 2.5, y + 1.0),
-            DIM_TEXT,
-            tick_label(v, step),
-            Anchor::End,
-        ));
+        shapes.push(text((x0 - 2.5, y + 1.0), DIM_TEXT, tick_label(v, step), Anchor::End));
     }
-    shapes.push(text(
-        (x0, y0 - 2.0),
-        DIM_TEXT,
-        "deviation, mm (+ outside, − inside)",
-        Anchor::Start,
-    ));
+    shapes.push(text((x0, y0 - 2.0), DIM_TEXT, "deviation, mm (+ outside, − inside)", Anchor::Start));
     // Zero line and the UG-81 band.
-    shapes.push(line(
-        vec![(x0, py(0.0)), (x1, py(0.0))],
-        Stroke::solid(THIN),
-    ));
+    shapes.push(line(vec![(x0, py(0.0)), (x1, py(0.0))], Stroke::solid(THIN)));
     let band = Stroke::dashed(0.3, 3.0, 1.5);
     let (up, down) = (limits.0.abs(), -limits.1.abs());
     shapes.push(line(vec![(x0, py(up)), (x1, py(up))], band));
@@ -855,36 +640,23 @@ pub fn deviation_plot(data: &PlotData, limits: (f64, f64), labels: &DrawingLabel
     ));
     // The data.
     if data.curve.len() > 1 {
-        let pts = data
-            .curve
-            .iter()
-            .filter(|p| p.deviation.is_finite())
-            .map(|p| (px(p.angle), py(p.deviation)))
-            .collect();
+        let pts =
+            data.curve.iter().filter(|p| p.deviation.is_finite()).map(|p| (px(p.angle), py(p.deviation))).collect();
         shapes.push(line(pts, Stroke::solid(THICK)));
     }
     let mut outside_band = 0;
     for p in data.points.iter().filter(|p| p.deviation.is_finite()) {
         let (x, y) = (px(p.angle), py(p.deviation));
         let s = 1.0;
-        shapes.push(line(
-            vec![(x - s, y - s), (x + s, y + s)],
-            Stroke::solid(0.25),
-        ));
-        shapes.push(line(
-            vec![(x - s, y + s), (x + s, y - s)],
-            Stroke::solid(0.25),
-        ));
+        shapes.push(line(vec![(x - s, y - s), (x + s, y + s)], Stroke::solid(0.25)));
+        shapes.push(line(vec![(x - s, y + s), (x + s, y - s)], Stroke::solid(0.25)));
         if p.deviation > up || p.deviation < down {
             outside_band += 1;
             shapes.push(circle((x, y), 1.8));
         }
     }
     let caption = if labels.caption.is_empty() {
-        let mut c = format!(
-            "{}: deviation from the {} along the meridian",
-            labels.title, labels.reference_name
-        );
+        let mut c = format!("{}: deviation from the {} along the meridian", labels.title, labels.reference_name);
         if !data.points.is_empty() {
             c.push_str(&format!(
                 "; {outside_band} of {} measured points outside the UG-81 band (circled)",
@@ -896,10 +668,5 @@ pub fn deviation_plot(data: &PlotData, limits: (f64, f64), labels: &DrawingLabel
     } else {
         labels.caption.clone()
     };
-    Drawing {
-        width: WIDTH,
-        height,
-        caption,
-        shapes,
-    }
+    Drawing { width: WIDTH, height, caption, shapes }
 }

@@ -22,16 +22,13 @@ mod properties;
 mod study;
 
 pub use deviation::{
-    deviation, deviation_curve, point_deviations, reference_profile, ug81_limits, Deviation,
-    PointDeviation, Reference,
+    deviation, deviation_curve, point_deviations, reference_profile, ug81_limits, Deviation, PointDeviation, Reference,
 };
 pub use figure::{deviation_plot, profile_drawing, DrawingLabels, PlotData, PlotPoint};
 pub use numeric::{brent_root, golden_max, integrate, QUADRATURE_TOLERANCE};
 pub use profile::{Nearest, Profile, Segment, SegmentRole};
 pub use properties::{properties, Computed, Properties};
-pub use study::{
-    head_study, study_table_markdown, study_table_text, StudyInput, StudyReport, StudyRow,
-};
+pub use study::{head_study, study_table_markdown, study_table_text, StudyInput, StudyReport, StudyRow};
 
 use serde::{Deserialize, Serialize};
 use std::fmt;
@@ -64,16 +61,9 @@ impl fmt::Display for GeometryError {
     fn fmt(&self, f: &mut fmt::Formatter<'_>) -> fmt::Result {
         match self {
             GeometryError::Invalid { what, detail } => write!(f, "invalid {what}: {detail}"),
-            GeometryError::PointOutOfRange {
-                index,
-                x,
-                z,
-                detail,
-            } => write!(
-                f,
-                "measured point {} (x = {x} mm, z = {z} mm) cannot be evaluated: {detail}",
-                index + 1
-            ),
+            GeometryError::PointOutOfRange { index, x, z, detail } => {
+                write!(f, "measured point {} (x = {x} mm, z = {z} mm) cannot be evaluated: {detail}", index + 1)
+            }
         }
     }
 }
@@ -82,10 +72,7 @@ impl std::error::Error for GeometryError {}
 
 /// Shorthand for building an [`GeometryError::Invalid`].
 pub(crate) fn invalid(what: &'static str, detail: impl Into<String>) -> GeometryError {
-    GeometryError::Invalid {
-        what,
-        detail: detail.into(),
-    }
+    GeometryError::Invalid { what, detail: detail.into() }
 }
 
 /// The largest length accepted anywhere, mm (1 km). Larger values are
@@ -96,10 +83,7 @@ pub const MAX_LENGTH: f64 = 1e6;
 pub(crate) fn length(what: &'static str, value: f64) -> Result<f64, GeometryError> {
     let v = finite(what, value)?;
     if v.abs() > MAX_LENGTH {
-        return Err(invalid(
-            what,
-            format!("{v} mm is larger than the {MAX_LENGTH} mm accepted"),
-        ));
+        return Err(invalid(what, format!("{v} mm is larger than the {MAX_LENGTH} mm accepted")));
     }
     Ok(v)
 }
@@ -223,10 +207,7 @@ impl NamedTorisphere {
     /// The head shape for an inside diameter D (mm) and nominal thickness t (mm).
     pub fn shape(self, inside_diameter: f64, thickness: f64) -> HeadShape {
         let (crown_radius, knuckle_radius) = self.radii(inside_diameter, thickness);
-        HeadShape::Torispherical {
-            crown_radius,
-            knuckle_radius,
-        }
+        HeadShape::Torispherical { crown_radius, knuckle_radius }
     }
 }
 
@@ -237,17 +218,11 @@ impl HeadSpec {
     pub fn validate(&self) -> Result<(), GeometryError> {
         let d = length("inside diameter", self.inside_diameter)?;
         if d <= 0.0 {
-            return Err(invalid(
-                "inside diameter",
-                format!("{d} mm must be positive"),
-            ));
+            return Err(invalid("inside diameter", format!("{d} mm must be positive")));
         }
         let sf = length("straight flange", self.straight_flange)?;
         if sf < 0.0 {
-            return Err(invalid(
-                "straight flange",
-                format!("{sf} mm must not be negative"),
-            ));
+            return Err(invalid("straight flange", format!("{sf} mm must not be negative")));
         }
         let t = length("thickness", self.thickness)?;
         if t < 0.0 {
@@ -255,10 +230,7 @@ impl HeadSpec {
         }
         let rho = finite("density", self.density)?;
         if rho < 0.0 {
-            return Err(invalid(
-                "density",
-                format!("{rho} kg/m³ must not be negative"),
-            ));
+            return Err(invalid("density", format!("{rho} kg/m³ must not be negative")));
         }
         match self.shape {
             HeadShape::Ellipsoidal { aspect_ratio } => {
@@ -270,17 +242,11 @@ impl HeadSpec {
                     ));
                 }
             }
-            HeadShape::Torispherical {
-                crown_radius,
-                knuckle_radius,
-            } => {
+            HeadShape::Torispherical { crown_radius, knuckle_radius } => {
                 let l = length("crown radius", crown_radius)?;
                 let r = length("knuckle radius", knuckle_radius)?;
                 if r <= 0.0 {
-                    return Err(invalid(
-                        "knuckle radius",
-                        format!("r = {r} mm must be positive"),
-                    ));
+                    return Err(invalid("knuckle radius", format!("r = {r} mm must be positive")));
                 }
                 if r >= 0.5 * d {
                     return Err(invalid(
@@ -306,10 +272,7 @@ impl HeadSpec {
                 }
             }
             HeadShape::Hemispherical => {}
-            HeadShape::Conical {
-                small_diameter,
-                half_apex_angle,
-            } => {
+            HeadShape::Conical { small_diameter, half_apex_angle } => {
                 let ds = finite("cone small diameter", small_diameter)?;
                 let a = finite("cone half apex angle", half_apex_angle)?;
                 if ds < 0.0 || ds >= d {
@@ -328,9 +291,7 @@ impl HeadSpec {
                 if depth > MAX_LENGTH {
                     return Err(invalid(
                         "cone half apex angle",
-                        format!(
-                            "{a} rad makes the cone {depth} mm deep, more than the {MAX_LENGTH} mm accepted"
-                        ),
+                        format!("{a} rad makes the cone {depth} mm deep, more than the {MAX_LENGTH} mm accepted"),
                     ));
                 }
             }
@@ -343,3 +304,4 @@ impl HeadSpec {
         Profile::from_spec(self)
     }
 }
+pub mod component;

@@ -30,12 +30,8 @@ const WGK: [f64; 8] = [
     0.209_482_141_084_727_8,
 ];
 // Weights of the embedded 7-point Gauss rule, for nodes XGK[1], XGK[3], XGK[5], XGK[7].
-const WG: [f64; 4] = [
-    0.129_484_966_168_869_7,
-    0.279_705_391_489_276_7,
-    0.381_830_050_505_118_9,
-    0.417_959_183_673_469_4,
-];
+const WG: [f64; 4] =
+    [0.129_484_966_168_869_7, 0.279_705_391_489_276_7, 0.381_830_050_505_118_9, 0.417_959_183_673_469_4];
 
 /// One Gauss-Kronrod 7-15 step on [a, b]: (Kronrod estimate, |Kronrod − Gauss|).
 fn gk15<F: Fn(f64) -> f64>(f: &F, a: f64, b: f64) -> (f64, f64) {
@@ -204,10 +200,7 @@ mod tests {
         // 15-point Kronrod rule is exact to degree 22, the 7-point Gauss rule to 13.
         for n in [0, 2, 4, 10, 20, 22] {
             let (k, _) = gk15(&|x: f64| x.powi(n), -1.0, 1.0);
-            assert!(
-                (k - 2.0 / (n as f64 + 1.0)).abs() < 1e-14,
-                "degree {n}: {k}"
-            );
+            assert!((k - 2.0 / (n as f64 + 1.0)).abs() < 1e-14, "degree {n}: {k}");
         }
     }
 

@@ -97,13 +97,7 @@ impl Segment {
     /// The point at local parameter t in [0, 1], mm.
     pub fn point(&self, t: f64) -> (f64, f64) {
         match *self {
-            Segment::Arc {
-                center,
-                radius,
-                theta0,
-                theta1,
-                ..
-            } => {
+            Segment::Arc { center, radius, theta0, theta1, .. } => {
                 let th = theta0 + t * (theta1 - theta0);
                 (center.0 + radius * th.sin(), center.1 + radius * th.cos())
             }
@@ -111,10 +105,7 @@ impl Segment {
                 let psi = t * FRAC_PI_2;
                 (a * psi.sin(), b * psi.cos())
             }
-            Segment::Line { start, end, .. } => (
-                start.0 + t * (end.0 - start.0),
-                start.1 + t * (end.1 - start.1),
-            ),
+            Segment::Line { start, end, .. } => (start.0 + t * (end.0 - start.0), start.1 + t * (end.1 - start.1)),
         }
     }
 
@@ -144,13 +135,7 @@ impl Segment {
     /// The nearest point of this segment to p: (local t, squared distance).
     fn nearest(&self, p: (f64, f64)) -> (f64, f64) {
         match *self {
-            Segment::Arc {
-                center,
-                radius,
-                theta0,
-                theta1,
-                ..
-            } => {
+            Segment::Arc { center, radius, theta0, theta1, .. } => {
                 let (vx, vz) = (p.0 - center.0, p.1 - center.1);
                 let span = theta1 - theta0;
                 let mut best = self.candidate(p, 0.0);
@@ -249,10 +234,7 @@ impl Profile {
                 depth = big_r / aspect_ratio;
                 segs.push(Segment::Ellipse { a: big_r, b: depth });
             }
-            HeadShape::Torispherical {
-                crown_radius: l,
-                knuckle_radius: r,
-            } => {
+            HeadShape::Torispherical { crown_radius: l, knuckle_radius: r } => {
                 // The crown centre (0, zc) and knuckle centre (R − r, 0) are
                 // L − r apart, which fixes the tangent angle α exactly.
                 let sin_a = (big_r - r) / (l - r);
@@ -284,10 +266,7 @@ impl Profile {
                     role: SegmentRole::Sphere,
                 });
             }
-            HeadShape::Conical {
-                small_diameter,
-                half_apex_angle: alpha,
-            } => {
+            HeadShape::Conical { small_diameter, half_apex_angle: alpha } => {
                 let rs = 0.5 * small_diameter;
                 depth = (big_r - rs) / alpha.tan();
                 let normal_angle = FRAC_PI_2 - alpha;
@@ -300,11 +279,7 @@ impl Profile {
                         role: SegmentRole::Corner,
                     });
                 }
-                segs.push(Segment::Line {
-                    start: (rs, depth),
-                    end: (big_r, 0.0),
-                    role: SegmentRole::Cone,
-                });
+                segs.push(Segment::Line { start: (rs, depth), end: (big_r, 0.0), role: SegmentRole::Cone });
                 segs.push(Segment::Arc {
                     center: (big_r, 0.0),
                     radius: 0.0,
@@ -321,11 +296,7 @@ impl Profile {
     /// straight flange (mm), for use as a reference shape. Unlike an
     /// ellipsoidal [`HeadSpec`] any positive depth is accepted, since a
     /// reference need not be a head that the code rules cover.
-    pub fn ellipse(
-        inside_diameter: f64,
-        depth: f64,
-        straight_flange: f64,
-    ) -> Result<Profile, GeometryError> {
+    pub fn ellipse(inside_diameter: f64, depth: f64, straight_flange: f64) -> Result<Profile, GeometryError> {
         let d = length("reference diameter", inside_diameter)?;
         let h = length("reference depth", depth)?;
         let sf = length("straight flange", straight_flange)?;
@@ -342,19 +313,9 @@ impl Profile {
     fn assemble(mut segs: Vec<Segment>, radius: f64, depth: f64, flange: f64) -> Profile {
         let head_segments = segs.len();
         if flange > 0.0 {
-            segs.push(Segment::Line {
-                start: (radius, 0.0),
-                end: (radius, -flange),
-                role: SegmentRole::Flange,
-            });
+            segs.push(Segment::Line { start: (radius, 0.0), end: (radius, -flange), role: SegmentRole::Flange });
         }
-        Profile {
-            segments: segs,
-            head_segments,
-            radius,
-            depth,
-            straight_flange: flange,
-        }
+        Profile { segments: segs, head_segments, radius, depth, straight_flange: flange }
     }
 
     /// All segments, from the crown to the end of the straight flange.
@@ -394,11 +355,7 @@ impl Profile {
 
     fn locate(&self, s: f64) -> (usize, f64) {
         let n = self.segments.len();
-        let s = if s.is_nan() {
-            0.0
-        } else {
-            s.clamp(0.0, n as f64)
-        };
+        let s = if s.is_nan() { 0.0 } else { s.clamp(0.0, n as f64) };
         let i = (s.floor() as usize).min(n - 1);
         (i, s - i as f64)
     }
@@ -425,10 +382,7 @@ impl Profile {
     /// The tangent point between crown and knuckle (x, z), mm, for a
     /// torispherical profile; `None` for other shapes.
     pub fn crown_knuckle_tangent_point(&self) -> Option<(f64, f64)> {
-        self.segments
-            .iter()
-            .find(|s| s.role() == SegmentRole::Knuckle)
-            .map(|s| s.point(0.0))
+        self.segments.iter().find(|s| s.role() == SegmentRole::Knuckle).map(|s| s.point(0.0))
     }
 
     /// Height z of the inner surface above the tangent line at radius x, mm.
@@ -439,10 +393,7 @@ impl Profile {
         if x < 0.0 || x > self.radius {
             return Err(invalid(
                 "radius",
-                format!(
-                    "x = {x} mm is outside the head, which spans 0 to {} mm",
-                    self.radius
-                ),
+                format!("x = {x} mm is outside the head, which spans 0 to {} mm", self.radius),
             ));
         }
         for seg in self.head_segments() {
@@ -455,15 +406,10 @@ impl Profile {
                     center.1 + (radius * radius - (x - center.0).powi(2)).max(0.0).sqrt()
                 }
                 Segment::Ellipse { a, b } => b * (1.0 - (x / a).powi(2)).max(0.0).sqrt(),
-                Segment::Line { start, end, .. } => {
-                    start.1 + (x - start.0) / (end.0 - start.0) * (end.1 - start.1)
-                }
+                Segment::Line { start, end, .. } => start.1 + (x - start.0) / (end.0 - start.0) * (end.1 - start.1),
             });
         }
-        Err(invalid(
-            "radius",
-            format!("x = {x} mm lies in the opening at the small end of the cone"),
-        ))
+        Err(invalid("radius", format!("x = {x} mm lies in the opening at the small end of the cone")))
     }
 
     /// The nearest point of the profile to (x, z) and the signed distance to

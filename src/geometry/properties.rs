@@ -23,10 +23,7 @@ pub struct Computed {
 }
 
 fn computed(value: f64, method: impl Into<String>) -> Computed {
-    Computed {
-        value,
-        method: method.into(),
-    }
+    Computed { value, method: method.into() }
 }
 
 /// Geometric and mass properties of a head.
@@ -59,13 +56,7 @@ pub struct Properties {
 /// revolution and the plane through its lower end, mm³.
 fn volume_under(seg: &Segment) -> f64 {
     match *seg {
-        Segment::Arc {
-            center,
-            radius: rho,
-            theta0,
-            theta1,
-            ..
-        } => {
+        Segment::Arc { center, radius: rho, theta0, theta1, .. } => {
             // x = cx + ρ sin θ, −dz = ρ sin θ dθ; expand (cx + ρ sin θ)² sin θ
             // and integrate term by term.
             let cx = center.0;
@@ -86,13 +77,7 @@ fn volume_under(seg: &Segment) -> f64 {
 /// Area of the surface of revolution of the segment offset outward by d, mm².
 fn offset_area(seg: &Segment, d: f64) -> f64 {
     match *seg {
-        Segment::Arc {
-            center,
-            radius,
-            theta0,
-            theta1,
-            ..
-        } => {
+        Segment::Arc { center, radius, theta0, theta1, .. } => {
             // Pappus: A = 2π ∫ x ds with ds = (ρ + d) dθ.
             let rr = radius + d;
             2.0 * PI * rr * (center.0 * (theta1 - theta0) + rr * (theta0.cos() - theta1.cos()))
@@ -123,13 +108,7 @@ fn offset_area(seg: &Segment, d: f64) -> f64 {
 /// offset by t, mm³ (exact, since every head surface is convex outward).
 fn offset_volume(seg: &Segment, t: f64) -> f64 {
     match *seg {
-        Segment::Arc {
-            center,
-            radius,
-            theta0,
-            theta1,
-            ..
-        } => {
+        Segment::Arc { center, radius, theta0, theta1, .. } => {
             let (r0, r1) = (radius, radius + t);
             2.0 * PI
                 * (center.0 * (theta1 - theta0) * (r1 * r1 - r0 * r0) / 2.0

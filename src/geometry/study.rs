@@ -110,10 +110,8 @@ impl StudyReport {
     pub fn new(input: &StudyInput) -> Result<StudyReport, GeometryError> {
         let rows = head_study(input)?;
         let mut notes = vec![
-            "Geometry is of the new head; required thicknesses use the corroded inside dimensions."
-                .to_string(),
-            "Named torispheres on the outside diameter use Do = D + 2·t with the nominal thickness t."
-                .to_string(),
+            "Geometry is of the new head; required thicknesses use the corroded inside dimensions.".to_string(),
+            "Named torispheres on the outside diameter use Do = D + 2·t with the nominal thickness t.".to_string(),
         ];
         if input.thickness.is_none() && input.pressure.is_none() {
             notes.push(
@@ -185,10 +183,7 @@ impl Candidate {
                 let k = (2.0 + (dc / (2.0 * hc)).powi(2)) / 6.0;
                 design.p * dc * k / den
             }
-            HeadShape::Torispherical {
-                crown_radius,
-                knuckle_radius,
-            } => {
+            HeadShape::Torispherical { crown_radius, knuckle_radius } => {
                 // Appendix 1-4(d): t = P·L·M/(2SE − 0.2P), M = (3 + √(L/r))/4.
                 let (l, r) = (crown_radius + ca, knuckle_radius + ca);
                 let m = (3.0 + (l / r).sqrt()) / 4.0;
@@ -209,32 +204,20 @@ fn check_input(input: &StudyInput) -> Result<Option<Design>, GeometryError> {
     }
     let ca = finite("corrosion allowance", input.corrosion_allowance)?;
     if ca < 0.0 {
-        return Err(invalid(
-            "corrosion allowance",
-            format!("{ca} mm must not be negative"),
-        ));
+        return Err(invalid("corrosion allowance", format!("{ca} mm must not be negative")));
     }
     let rho = finite("density", input.density)?;
     if rho < 0.0 {
-        return Err(invalid(
-            "density",
-            format!("{rho} kg/m³ must not be negative"),
-        ));
+        return Err(invalid("density", format!("{rho} kg/m³ must not be negative")));
     }
     let sf = finite("straight flange", input.straight_flange)?;
     if sf < 0.0 {
-        return Err(invalid(
-            "straight flange",
-            format!("{sf} mm must not be negative"),
-        ));
+        return Err(invalid("straight flange", format!("{sf} mm must not be negative")));
     }
     if let Some(t) = input.thickness {
         let t = finite("thickness", t)?;
         if t <= ca {
-            return Err(invalid(
-                "thickness",
-                format!("{t} mm must be larger than the corrosion allowance {ca} mm"),
-            ));
+            return Err(invalid("thickness", format!("{t} mm must be larger than the corrosion allowance {ca} mm")));
         }
     }
     match (input.pressure, input.stress, input.efficiency) {
@@ -244,36 +227,27 @@ fn check_input(input: &StudyInput) -> Result<Option<Design>, GeometryError> {
             let s = finite("allowable stress", s)?;
             let e = finite("joint efficiency", e)?;
             if p <= 0.0 {
-                return Err(invalid(
-                    "pressure",
-                    format!("{p} MPa must be positive (internal pressure)"),
-                ));
+                return Err(invalid("pressure", format!("{p} MPa must be positive (internal pressure)")));
             }
             if s <= 0.0 {
-                return Err(invalid(
-                    "allowable stress",
-                    format!("{s} MPa must be positive"),
-                ));
+                return Err(invalid("allowable stress", format!("{s} MPa must be positive")));
             }
             if e <= 0.0 || e > 1.0 {
-                return Err(invalid(
-                    "joint efficiency",
-                    format!("{e} must lie in (0, 1]"),
-                ));
+                return Err(invalid("joint efficiency", format!("{e} must lie in (0, 1]")));
             }
             let design = Design { p, s, e, ca };
             if design.denominator() <= 0.0 {
                 return Err(invalid(
                     "pressure",
-                    format!("2SE − 0.2P = {} MPa is not positive; the pressure is too high for the stress", design.denominator()),
+                    format!(
+                        "2SE − 0.2P = {} MPa is not positive; the pressure is too high for the stress",
+                        design.denominator()
+                    ),
                 ));
             }
             Ok(Some(design))
         }
-        _ => Err(invalid(
-            "design data",
-            "pressure, allowable stress and joint efficiency must be given together",
-        )),
+        _ => Err(invalid("design data", "pressure, allowable stress and joint efficiency must be given together")),
     }
 }
 
@@ -330,10 +304,7 @@ pub fn head_study(input: &StudyInput) -> Result<Vec<StudyRow>, GeometryError> {
         let reference = reference_profile(&profile, Reference::TwoToOne)?;
         let dev = deviation(&profile, &reference);
         let (crown_radius, knuckle_radius) = match shape {
-            HeadShape::Torispherical {
-                crown_radius,
-                knuckle_radius,
-            } => (Some(crown_radius), Some(knuckle_radius)),
+            HeadShape::Torispherical { crown_radius, knuckle_radius } => (Some(crown_radius), Some(knuckle_radius)),
             _ => (None, None),
         };
         rows.push(StudyRow {
@@ -352,11 +323,7 @@ pub fn head_study(input: &StudyInput) -> Result<Vec<StudyRow>, GeometryError> {
             deviation_inside: dev.max_inside,
         });
     }
-    rows.sort_by(|a, b| {
-        a.inside_depth
-            .total_cmp(&b.inside_depth)
-            .then_with(|| a.shape.cmp(&b.shape))
-    });
+    rows.sort_by(|a, b| a.inside_depth.total_cmp(&b.inside_depth).then_with(|| a.shape.cmp(&b.shape)));
     Ok(rows)
 }
 
@@ -402,11 +369,7 @@ fn cells(rows: &[StudyRow]) -> (Vec<&'static str>, Vec<Vec<String>>) {
 pub fn study_table_text(rows: &[StudyRow]) -> String {
     let (head, body) = cells(rows);
     let width = |c: usize| {
-        body.iter()
-            .map(|r| r[c].chars().count())
-            .chain(std::iter::once(head[c].chars().count()))
-            .max()
-            .unwrap_or(0)
+        body.iter().map(|r| r[c].chars().count()).chain(std::iter::once(head[c].chars().count())).max().unwrap_or(0)
     };
     let widths: Vec<usize> = (0..head.len()).map(width).collect();
     let fmt_row = |cells: &[String]| {
@@ -442,9 +405,7 @@ pub fn study_table_markdown(rows: &[StudyRow]) -> String {
     let (head, body) = cells(rows);
     let mut out = String::new();
     let _ = writeln!(out, "| {} |", head.join(" | "));
-    let align: Vec<&str> = (0..head.len())
-        .map(|c| if c == 0 { ":---" } else { "---:" })
-        .collect();
+    let align: Vec<&str> = (0..head.len()).map(|c| if c == 0 { ":---" } else { "---:" }).collect();
     let _ = writeln!(out, "| {} |", align.join(" | "));
     for r in &body {
         let _ = writeln!(out, "| {} |", r.join(" | "));

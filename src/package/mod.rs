@@ -5,6 +5,7 @@
 //! (manifest last, so a package without its manifest is visibly incomplete).
 
 pub mod digest;
+pub mod heads;
 pub mod manifest;
 
 use crate::drawing::Drawing;
@@ -12,9 +13,7 @@ use crate::pipeline::Evaluated;
 use crate::render::context::{self, SheetExtras};
 use crate::render::pdf::{self, Paper, PdfMetadata, PdfOptions};
 use crate::render::templates::{TemplateError, TemplateSet};
-use manifest::{
-    package_stem, sha256_hex, DocumentId, FileEntry, Manifest, ToolId, MANIFEST_FORMAT,
-};
+use manifest::{package_stem, sha256_hex, DocumentId, FileEntry, Manifest, ToolId, MANIFEST_FORMAT};
 use std::collections::BTreeMap;
 use std::fmt;
 
@@ -31,11 +30,7 @@ pub struct Formats {
 
 impl Default for Formats {
     fn default() -> Self {
-        Formats {
-            md: true,
-            pdf: true,
-            json: true,
-        }
+        Formats { md: true, pdf: true, json: true }
     }
 }
 
@@ -50,10 +45,7 @@ pub struct Options {
 
 impl Default for Options {
     fn default() -> Self {
-        Options {
-            formats: Formats::default(),
-            paper: Paper::A4,
-        }
+        Options { formats: Formats::default(), paper: Paper::A4 }
     }
 }
 
@@ -161,11 +153,7 @@ pub fn compile(
             header_right: format!("Revision {}", d.revision),
             footer_left: format!("Digest {}", &digest[..12]),
             metadata: PdfMetadata {
-                title: if d.title.is_empty() {
-                    d.number.clone()
-                } else {
-                    format!("{} ({})", d.title, d.number)
-                },
+                title: if d.title.is_empty() { d.number.clone() } else { format!("{} ({})", d.title, d.number) },
                 author: design.sign_off.prepared_by.clone(),
                 subject: format!(
                     "Calculation package {} revision {}: {}",
@@ -181,26 +169,19 @@ pub fn compile(
             },
             document_id: digest.clone(),
         };
-        let bytes = pdf::markdown_to_pdf(&markdown, &additions.figures, &opts)
-            .map_err(|e| PackageError::Pdf(e.to_string()))?;
+        let bytes =
+            pdf::markdown_to_pdf(&markdown, &additions.figures, &opts).map_err(|e| PackageError::Pdf(e.to_string()))?;
         files.push((format!("{stem}.pdf"), bytes));
     }
 
     let mut entries: Vec<FileEntry> = files
         .iter()
-        .map(|(n, b)| FileEntry {
-            name: n.clone(),
-            sha256: sha256_hex(b),
-            bytes: b.len() as u64,
-        })
+        .map(|(n, b)| FileEntry { name: n.clone(), sha256: sha256_hex(b), bytes: b.len() as u64 })
         .collect();
     entries.sort_by(|a, b| a.name.cmp(&b.name));
     let manifest = Manifest {
         format: MANIFEST_FORMAT.to_string(),
-        tool: ToolId {
-            name: crate::results::TOOL_NAME.into(),
-            version: crate::results::TOOL_VERSION.into(),
-        },
+        tool: ToolId { name: crate::results::TOOL_NAME.into(), version: crate::results::TOOL_VERSION.into() },
         document: DocumentId {
             number: d.number.clone(),
             revision: d.revision.clone(),
@@ -210,22 +191,11 @@ pub fn compile(
         rules: ev.calculation.rule_set.clone(),
         edition: ev.calculation.edition.clone(),
         digest: digest.clone(),
-        status: if ev.calculation.acceptable() {
-            "acceptable".into()
-        } else {
-            "not-acceptable".into()
-        },
+        status: if ev.calculation.acceptable() { "acceptable".into() } else { "not-acceptable".into() },
         files: entries,
         signatures: Vec::new(),
     };
-    Ok(Package {
-        stem,
-        digest,
-        markdown,
-        files,
-        manifest,
-        acceptable: ev.calculation.acceptable(),
-    })
+    Ok(Package { stem, digest, markdown, files, manifest, acceptable: ev.calculation.acceptable() })
 }
 
 /// Refuses a package whose Markdown lacks any caution.

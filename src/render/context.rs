@@ -42,12 +42,10 @@ fn nbsp(s: &str) -> String {
 }
 
 fn opt_up(u: UnitSystem, q: Option<Quantity>) -> String {
-    q.map(|q| bare(&u.display_up(q)))
-        .unwrap_or_else(|| "n/a".into())
+    q.map(|q| bare(&u.display_up(q))).unwrap_or_else(|| "n/a".into())
 }
 fn opt_down(u: UnitSystem, q: Option<Quantity>) -> String {
-    q.map(|q| bare(&u.display_down(q)))
-        .unwrap_or_else(|| "n/a".into())
+    q.map(|q| bare(&u.display_down(q))).unwrap_or_else(|| "n/a".into())
 }
 /// The number without its unit (for columns whose header names the unit).
 fn bare(s: &str) -> String {
@@ -67,11 +65,7 @@ fn step_row(u: UnitSystem, n: usize, s: &Step) -> Value {
         "input".to_string()
     } else {
         // "t = P·R/(…) = 1 MPa · 903 mm/(…)": formula, then the same with values.
-        let rhs = s
-            .substituted
-            .split_once(" = ")
-            .map(|(_, r)| r)
-            .unwrap_or(&s.substituted);
+        let rhs = s.substituted.split_once(" = ").map(|(_, r)| r).unwrap_or(&s.substituted);
         format!("{} = {}", s.formula, rhs)
     };
     json!({
@@ -104,18 +98,9 @@ fn check_row(u: UnitSystem, k: &Check) -> Value {
     })
 }
 
-fn component(
-    design: &Design,
-    u: UnitSystem,
-    n: usize,
-    c: &ComponentResult,
-    extras: Option<&SheetExtras>,
-) -> Value {
+fn component(design: &Design, u: UnitSystem, n: usize, c: &ComponentResult, extras: Option<&SheetExtras>) -> Value {
     let comp = design.components.iter().find(|x| x.id == c.id);
-    let material = comp
-        .and_then(|x| design.material(x))
-        .map(|m| m.name.clone())
-        .unwrap_or_default();
+    let material = comp.and_then(|x| design.material(x)).map(|m| m.name.clone()).unwrap_or_default();
     let inputs: Vec<Value> = comp
         .map(|x| {
             x.inputs
@@ -156,23 +141,14 @@ fn echo(design: &Design) -> Vec<Value> {
     let c = &design.conditions;
     push("design.internal_pressure".into(), u.display(c.pressure));
     push("design.temperature".into(), u.display(c.temperature));
-    push(
-        "design.corrosion_allowance".into(),
-        u.display(c.corrosion_allowance),
-    );
+    push("design.corrosion_allowance".into(), u.display(c.corrosion_allowance));
     if let Some(rho) = c.liquid_density {
         push("design.liquid_density".into(), u.display(rho));
     }
     for (k, m) in &design.materials {
         push(format!("materials.{k}.name"), m.name.clone());
-        push(
-            format!("materials.{k}.allowable_stress"),
-            u.display(m.allowable_stress),
-        );
-        push(
-            format!("materials.{k}.test_allowable_stress"),
-            u.display(m.test_allowable_stress),
-        );
+        push(format!("materials.{k}.allowable_stress"), u.display(m.allowable_stress));
+        push(format!("materials.{k}.test_allowable_stress"), u.display(m.test_allowable_stress));
         push(format!("materials.{k}.density"), u.display(m.density));
     }
     for (i, comp) in design.components.iter().enumerate() {
@@ -184,43 +160,30 @@ fn echo(design: &Design) -> Vec<Value> {
             push(format!("{p}.{}", e.key), u.display(e.value));
         }
         if comp.corrosion_allowance != c.corrosion_allowance {
-            push(
-                format!("{p}.corrosion_allowance (used)"),
-                u.display(comp.corrosion_allowance),
-            );
+            push(format!("{p}.corrosion_allowance (used)"), u.display(comp.corrosion_allowance));
         }
     }
     rows
 }
 
 /// Builds the whole template context.
-pub fn build(
-    ev: &Evaluated,
-    digest: &str,
-    extras: &std::collections::BTreeMap<String, SheetExtras>,
-) -> Value {
+pub fn build(ev: &Evaluated, digest: &str, extras: &std::collections::BTreeMap<String, SheetExtras>) -> Value {
     let design = &ev.design;
     let calc = &ev.calculation;
     let u = design.units;
     let d = &design.document;
     let so = &design.sign_off;
-    let sign_off = [
-        ("Prepared", &so.prepared_by),
-        ("Checked", &so.checked_by),
-        ("Approved", &so.approved_by),
-    ]
-    .iter()
-    .map(|(role, name)| json!({ "role": role, "name": md(name), "date": "", "signature": "" }))
-    .collect::<Vec<_>>();
+    let sign_off = [("Prepared", &so.prepared_by), ("Checked", &so.checked_by), ("Approved", &so.approved_by)]
+        .iter()
+        .map(|(role, name)| json!({ "role": role, "name": md(name), "date": "", "signature": "" }))
+        .collect::<Vec<_>>();
     let mut history: Vec<Value> = d
         .history
         .iter()
         .map(|h| json!({ "revision": md(&h.revision), "date": md(&h.date), "note": md(&h.note) }))
         .collect();
     if !d.history.iter().any(|h| h.revision == d.revision) {
-        history.push(
-            json!({ "revision": md(&d.revision), "date": md(&d.date), "note": "This revision" }),
-        );
+        history.push(json!({ "revision": md(&d.revision), "date": md(&d.date), "note": "This revision" }));
     }
     let summary: Vec<Value> = calc
         .components
@@ -240,11 +203,7 @@ pub fn build(
     let v = &calc.vessel;
     let cautions_all = crate::cautions::all(design, calc);
     let standing: Vec<String> = crate::cautions::STANDING.iter().map(|s| md(s)).collect();
-    let specific: Vec<String> = cautions_all
-        .iter()
-        .skip(crate::cautions::STANDING.len())
-        .map(|s| md(s))
-        .collect();
+    let specific: Vec<String> = cautions_all.iter().skip(crate::cautions::STANDING.len()).map(|s| md(s)).collect();
     let failed: Vec<String> = calc
         .failed_checks()
         .iter()

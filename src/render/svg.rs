@@ -71,32 +71,15 @@ pub fn to_svg(drawing: &Drawing) -> String {
     out.push_str("<g font-family=\"Helvetica, Arial, sans-serif\" fill=\"#000000\">\n");
     for shape in &drawing.shapes {
         match shape {
-            Shape::Polyline {
-                points,
-                stroke,
-                closed,
-            } => {
+            Shape::Polyline { points, stroke, closed } => {
                 if points.is_empty() {
                     continue;
                 }
-                let pts: Vec<String> = points
-                    .iter()
-                    .map(|(x, y)| format!("{},{}", num(*x), num(*y)))
-                    .collect();
+                let pts: Vec<String> = points.iter().map(|(x, y)| format!("{},{}", num(*x), num(*y))).collect();
                 let tag = if *closed { "polygon" } else { "polyline" };
-                let _ = writeln!(
-                    out,
-                    "<{tag} points=\"{}\" {}/>",
-                    pts.join(" "),
-                    stroke_attrs(stroke)
-                );
+                let _ = writeln!(out, "<{tag} points=\"{}\" {}/>", pts.join(" "), stroke_attrs(stroke));
             }
-            Shape::Text {
-                at,
-                size,
-                text,
-                anchor,
-            } => {
+            Shape::Text { at, size, text, anchor } => {
                 let anchor = match anchor {
                     Anchor::Start => "start",
                     Anchor::Middle => "middle",
@@ -137,12 +120,7 @@ mod tests {
                     stroke: Stroke::solid(0.35),
                     closed: true,
                 },
-                Shape::Text {
-                    at: (80.0, 70.0),
-                    size: 9.0,
-                    text: "D < 2 & L > r".into(),
-                    anchor: Anchor::Middle,
-                },
+                Shape::Text { at: (80.0, 70.0), size: 9.0, text: "D < 2 & L > r".into(), anchor: Anchor::Middle },
             ],
         }
     }
@@ -151,9 +129,7 @@ mod tests {
     fn page_is_sized_in_millimetres_with_a_matching_view_box() {
         let svg = to_svg(&sample());
         assert!(svg.starts_with("<?xml version=\"1.0\""));
-        assert!(
-            svg.contains("width=\"160.000mm\" height=\"80.500mm\" viewBox=\"0 0 160.000 80.500\"")
-        );
+        assert!(svg.contains("width=\"160.000mm\" height=\"80.500mm\" viewBox=\"0 0 160.000 80.500\""));
         assert!(svg.contains("version=\"1.1\""));
         assert!(svg.trim_end().ends_with("</svg>"));
     }

@@ -11,38 +11,14 @@ pub const ENTRY: &str = "package.md.tera";
 
 /// The default templates, embedded so that the binary works alone.
 pub const DEFAULTS: [(&str, &str); 8] = [
-    (
-        "package.md.tera",
-        include_str!("../../report-templates/package.md.tera"),
-    ),
-    (
-        "cover.md.tera",
-        include_str!("../../report-templates/cover.md.tera"),
-    ),
-    (
-        "sign-off.md.tera",
-        include_str!("../../report-templates/sign-off.md.tera"),
-    ),
-    (
-        "history.md.tera",
-        include_str!("../../report-templates/history.md.tera"),
-    ),
-    (
-        "summary.md.tera",
-        include_str!("../../report-templates/summary.md.tera"),
-    ),
-    (
-        "component.md.tera",
-        include_str!("../../report-templates/component.md.tera"),
-    ),
-    (
-        "cautions.md.tera",
-        include_str!("../../report-templates/cautions.md.tera"),
-    ),
-    (
-        "appendix.md.tera",
-        include_str!("../../report-templates/appendix.md.tera"),
-    ),
+    ("package.md.tera", include_str!("../../report-templates/package.md.tera")),
+    ("cover.md.tera", include_str!("../../report-templates/cover.md.tera")),
+    ("sign-off.md.tera", include_str!("../../report-templates/sign-off.md.tera")),
+    ("history.md.tera", include_str!("../../report-templates/history.md.tera")),
+    ("summary.md.tera", include_str!("../../report-templates/summary.md.tera")),
+    ("component.md.tera", include_str!("../../report-templates/component.md.tera")),
+    ("cautions.md.tera", include_str!("../../report-templates/cautions.md.tera")),
+    ("appendix.md.tera", include_str!("../../report-templates/appendix.md.tera")),
 ];
 
 /// A complete set of templates by file name.
@@ -68,11 +44,7 @@ pub struct TemplateError {
 impl fmt::Display for TemplateError {
     fn fmt(&self, f: &mut fmt::Formatter<'_>) -> fmt::Result {
         match self.line {
-            Some(l) => write!(
-                f,
-                "template `{}`, line {l}: {}",
-                self.template, self.message
-            ),
+            Some(l) => write!(f, "template `{}`, line {l}: {}", self.template, self.message),
             None => write!(f, "template `{}`: {}", self.template, self.message),
         }
     }
@@ -83,10 +55,7 @@ impl std::error::Error for TemplateError {}
 impl Default for TemplateSet {
     fn default() -> Self {
         TemplateSet {
-            files: DEFAULTS
-                .iter()
-                .map(|(n, t)| (n.to_string(), t.to_string()))
-                .collect(),
+            files: DEFAULTS.iter().map(|(n, t)| (n.to_string(), t.to_string())).collect(),
             overridden: Vec::new(),
         }
     }
@@ -125,12 +94,7 @@ impl TemplateSet {
     pub fn hashes(&self) -> BTreeMap<String, String> {
         self.files
             .iter()
-            .map(|(n, t)| {
-                (
-                    n.clone(),
-                    crate::package::manifest::hex(&Sha256::digest(t.as_bytes())),
-                )
-            })
+            .map(|(n, t)| (n.clone(), crate::package::manifest::hex(&Sha256::digest(t.as_bytes()))))
             .collect()
     }
 
@@ -140,8 +104,7 @@ impl TemplateSet {
         // Templates are Markdown: no HTML escaping.
         tera.autoescape_on(vec![]);
         for (name, text) in &self.files {
-            tera.add_raw_template(name, text)
-                .map_err(|e| parse_error(name, text, &e))?;
+            tera.add_raw_template(name, text).map_err(|e| parse_error(name, text, &e))?;
         }
         let ctx = tera::Context::from_value(context.clone()).map_err(|e| TemplateError {
             template: ENTRY.to_string(),
@@ -161,27 +124,17 @@ impl TemplateSet {
             .rev()
             .find_map(|m| quoted(m, '\'').filter(|n| self.files.contains_key(n)))
             .unwrap_or_else(|| ENTRY.to_string());
-        let variable = chain.iter().find_map(|m| {
-            m.split_once("Variable `")
-                .and_then(|(_, r)| r.split_once('`'))
-                .map(|(v, _)| v.to_string())
-        });
+        let variable = chain
+            .iter()
+            .find_map(|m| m.split_once("Variable `").and_then(|(_, r)| r.split_once('`')).map(|(v, _)| v.to_string()));
         let line = variable.as_ref().and_then(|v| {
-            self.files.get(&template).and_then(|text| {
-                text.lines()
-                    .position(|l| l.contains(v.as_str()))
-                    .map(|i| i + 1)
-            })
+            self.files.get(&template).and_then(|text| text.lines().position(|l| l.contains(v.as_str())).map(|i| i + 1))
         });
         let message = match &variable {
             Some(v) => format!("variable `{v}` is not defined for this template (see DEVELOPERS.md for the context)"),
             None => chain.join(": "),
         };
-        TemplateError {
-            template,
-            line,
-            message,
-        }
+        TemplateError { template, line, message }
     }
 }
 
@@ -205,10 +158,7 @@ fn parse_error(name: &str, _text: &str, e: &tera::Error) -> TemplateError {
     let chain = error_chain(e);
     let all = chain.join("\n");
     // Tera's parse errors carry "--> line:column" from its grammar.
-    let line = all
-        .split_once("--> ")
-        .and_then(|(_, r)| r.split(':').next())
-        .and_then(|n| n.trim().parse().ok());
+    let line = all.split_once("--> ").and_then(|(_, r)| r.split(':').next()).and_then(|n| n.trim().parse().ok());
     let message = chain
         .last()
         .cloned()
@@ -218,9 +168,5 @@ fn parse_error(name: &str, _text: &str, e: &tera::Error) -> TemplateError {
         .unwrap_or("syntax error")
         .trim()
         .to_string();
-    TemplateError {
-        template: name.to_string(),
-        line,
-        message: format!("syntax error: {message}"),
-    }
+    TemplateError { template: name.to_string(), line, message: format!("syntax error: {message}") }
 }

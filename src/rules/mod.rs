@@ -102,6 +102,9 @@ pub struct ComponentResult {
     pub limits: Vec<String>,
     /// All checks pass.
     pub acceptable: bool,
+    /// Geometry of formed heads and cones (depth, volume, area, blank, mass,
+    /// deviation from a reference ellipse).
+    pub geometry: Option<crate::geometry::component::ComponentGeometry>,
 }
 
 /// Vessel-level results.

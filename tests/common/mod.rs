@@ -11,11 +11,7 @@ pub fn root() -> PathBuf {
 
 /// Runs the built `knuckle` binary with arguments, from the crate root.
 pub fn knuckle(args: &[&str]) -> Output {
-    Command::new(env!("CARGO_BIN_EXE_knuckle"))
-        .args(args)
-        .current_dir(root())
-        .output()
-        .expect("run knuckle")
+    Command::new(env!("CARGO_BIN_EXE_knuckle")).args(args).current_dir(root()).output().expect("run knuckle")
 }
 
 /// Every `.toml` file in a fixture folder, sorted.

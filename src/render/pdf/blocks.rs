@@ -53,12 +53,7 @@ pub struct Table {
 impl Table {
     /// Number of columns: the widest of the header and the rows.
     pub fn columns(&self) -> usize {
-        self.rows
-            .iter()
-            .map(Vec::len)
-            .chain([self.head.len(), self.aligns.len()])
-            .max()
-            .unwrap_or(0)
+        self.rows.iter().map(Vec::len).chain([self.head.len(), self.aligns.len()]).max().unwrap_or(0)
     }
 }
 
@@ -125,11 +120,7 @@ enum InlineKind {
 enum Container {
     Root(Vec<Block>),
     Quote(Vec<Block>),
-    List {
-        start: Option<u64>,
-        loose: bool,
-        items: Vec<Vec<Block>>,
-    },
+    List { start: Option<u64>, loose: bool, items: Vec<Vec<Block>> },
     Item(Vec<Block>),
 }
 
@@ -171,9 +162,7 @@ impl Builder {
     /// Appends a finished block to the innermost container that holds blocks.
     fn push_block(&mut self, block: Block) {
         match self.stack.last_mut() {
-            Some(Container::Root(v)) | Some(Container::Quote(v)) | Some(Container::Item(v)) => {
-                v.push(block)
-            }
+            Some(Container::Root(v)) | Some(Container::Quote(v)) | Some(Container::Item(v)) => v.push(block),
             // A block directly in a list (not in an item) cannot come from the
             // parser; keep it anyway as an item of its own.
             Some(Container::List { items, .. }) => items.push(vec![block]),
@@ -217,12 +206,7 @@ impl Builder {
         if self.inline.is_none() {
             self.inline = Some((InlineKind::ImplicitParagraph, Vec::new()));
         }
-        let span = Span {
-            text: text.to_string(),
-            bold: self.bold > 0,
-            italic: self.italic > 0,
-            code,
-        };
+        let span = Span { text: text.to_string(), bold: self.bold > 0, italic: self.italic > 0, code };
         if let Some((_, spans)) = self.inline.as_mut() {
             spans.push(span);
         }
@@ -269,11 +253,7 @@ impl Builder {
             }
             Tag::List(start) => {
                 self.close_implicit();
-                self.stack.push(Container::List {
-                    start,
-                    loose: false,
-                    items: Vec::new(),
-                });
+                self.stack.push(Container::List { start, loose: false, items: Vec::new() });
             }
             Tag::Item => self.stack.push(Container::Item(Vec::new())),
             Tag::Table(aligns) => {
@@ -286,10 +266,7 @@ impl Builder {
                         Alignment::Left | Alignment::None => Align::Left,
                     })
                     .collect();
-                self.table = Some(Table {
-                    aligns,
-                    ..Table::default()
-                });
+                self.table = Some(Table { aligns, ..Table::default() });
             }
             Tag::TableHead => {
                 self.in_head = true;
@@ -327,10 +304,7 @@ impl Builder {
                 if self.image_depth > 0 {
                     self.image_depth -= 1;
                 } else if let Some((name, caption)) = self.image.take() {
-                    self.push_block(Block::Figure {
-                        name,
-                        caption: caption.trim().to_string(),
-                    });
+                    self.push_block(Block::Figure { name, caption: caption.trim().to_string() });
                 }
             }
             return;
@@ -380,17 +354,8 @@ impl Builder {
             TagEnd::List(_) => {
                 self.close_implicit();
                 if let Some(Container::List { .. }) = self.stack.last() {
-                    if let Some(Container::List {
-                        start,
-                        loose,
-                        items,
-                    }) = self.stack.pop()
-                    {
-                        self.push_block(Block::List {
-                            start,
-                            tight: !loose,
-                            items,
-                        });
+                    if let Some(Container::List { start, loose, items }) = self.stack.pop() {
+                        self.push_block(Block::List { start, tight: !loose, items });
                     }
                 }
             }
@@ -453,18 +418,10 @@ impl Builder {
         // the builder must not lose content if it ever does not).
         while self.stack.len() > 1 {
             match self.stack.pop() {
-                Some(Container::Quote(b)) | Some(Container::Item(b)) => {
-                    self.push_block(Block::Quote(b))
+                Some(Container::Quote(b)) | Some(Container::Item(b)) => self.push_block(Block::Quote(b)),
+                Some(Container::List { start, loose, items }) => {
+                    self.push_block(Block::List { start, tight: !loose, items })
                 }
-                Some(Container::List {
-                    start,
-                    loose,
-                    items,
-                }) => self.push_block(Block::List {
-                    start,
-                    tight: !loose,
-                    items,
-                }),
                 Some(Container::Root(b)) => {
                     for block in b {
                         self.push_block(block);
@@ -501,13 +458,9 @@ mod tests {
     fn headings_paragraphs_and_styles() {
         let blocks = parse("# Title\n\nSome **bold** and *it* and `code`.\n");
         assert_eq!(blocks.len(), 2);
-        let Block::Heading { level: 1, text } = &blocks[0] else {
-            panic!("{blocks:?}")
-        };
+        let Block::Heading { level: 1, text } = &blocks[0] else { panic!("{blocks:?}") };
         assert_eq!(plain(text), "Title");
-        let Block::Paragraph(spans) = &blocks[1] else {
-            panic!("{blocks:?}")
-        };
+        let Block::Paragraph(spans) = &blocks[1] else { panic!("{blocks:?}") };
         assert!(spans.iter().any(|s| s.bold && s.text == "bold"));
         assert!(spans.iter().any(|s| s.italic && s.text == "it"));
         assert!(spans.iter().any(|s| s.code && s.text == "code"));
@@ -516,32 +469,16 @@ mod tests {
     #[test]
     fn tight_and_loose_lists_and_nesting() {
         let blocks = parse("- a\n- b\n  1. x\n  2. y\n\n3. p\n\n4. q\n");
-        let Block::List {
-            start: None,
-            tight: true,
-            items,
-        } = &blocks[0]
-        else {
-            panic!("{blocks:?}")
-        };
+        let Block::List { start: None, tight: true, items } = &blocks[0] else { panic!("{blocks:?}") };
         assert_eq!(items.len(), 2);
         assert!(matches!(items[1][1], Block::List { start: Some(1), .. }));
-        assert!(matches!(
-            blocks[1],
-            Block::List {
-                start: Some(3),
-                tight: false,
-                ..
-            }
-        ));
+        assert!(matches!(blocks[1], Block::List { start: Some(3), tight: false, .. }));
     }
 
     #[test]
     fn tables_keep_alignment_header_and_rows() {
         let blocks = parse("| a | b |\n|:--|--:|\n| 1 | 2 |\n| 3 |\n");
-        let Block::Table(t) = &blocks[0] else {
-            panic!("{blocks:?}")
-        };
+        let Block::Table(t) = &blocks[0] else { panic!("{blocks:?}") };
         assert_eq!(t.aligns, vec![Align::Left, Align::Right]);
         assert_eq!(t.head.len(), 2);
         assert_eq!(t.rows.len(), 2);
@@ -551,13 +488,10 @@ mod tests {
 
     #[test]
     fn figures_page_breaks_and_comments() {
-        let md =
-            "Before ![Head profile](head) after\n\n<!-- page-break -->\n\n<!-- note -->\n\nEnd\n";
+        let md = "Before ![Head profile](head) after\n\n<!-- page-break -->\n\n<!-- note -->\n\nEnd\n";
         let blocks = parse(md);
         assert!(matches!(&blocks[0], Block::Paragraph(s) if plain(s).trim() == "Before"));
-        assert!(
-            matches!(&blocks[1], Block::Figure { name, caption } if name == "head" && caption == "Head profile")
-        );
+        assert!(matches!(&blocks[1], Block::Figure { name, caption } if name == "head" && caption == "Head profile"));
         assert!(matches!(&blocks[2], Block::Paragraph(s) if plain(s).trim() == "after"));
         assert_eq!(blocks[3], Block::PageBreak);
         assert!(matches!(&blocks[4], Block::Paragraph(s) if plain(s) == "End"));

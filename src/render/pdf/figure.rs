@@ -21,11 +21,7 @@ const MIN_LABEL: f32 = 5.0;
 const MIN_STROKE: f32 = 0.2;
 
 fn caption_style() -> BaseStyle {
-    BaseStyle {
-        size: CAPTION_SIZE,
-        bold: false,
-        italic: true,
-    }
+    BaseStyle { size: CAPTION_SIZE, bold: false, italic: true }
 }
 
 /// The caption to print: the Markdown alternative text, or the drawing's own.
@@ -41,15 +37,9 @@ fn caption_text<'d>(alt: &'d str, drawing: &'d Drawing) -> &'d str {
 /// coordinates everywhere. A figure comes from the program, not the user, so
 /// a bad one is reported rather than drawn half.
 fn validate(name: &str, d: &Drawing) -> Result<(), PdfError> {
-    let bad = |reason: String| PdfError::InvalidFigure {
-        name: name.to_string(),
-        reason,
-    };
+    let bad = |reason: String| PdfError::InvalidFigure { name: name.to_string(), reason };
     if !(d.width.is_finite() && d.height.is_finite() && d.width > 0.0 && d.height > 0.0) {
-        return Err(bad(format!(
-            "its size {} mm x {} mm is not positive and finite",
-            d.width, d.height
-        )));
+        return Err(bad(format!("its size {} mm x {} mm is not positive and finite", d.width, d.height)));
     }
     for (i, shape) in d.shapes.iter().enumerate() {
         let finite = match shape {
@@ -57,19 +47,12 @@ fn validate(name: &str, d: &Drawing) -> Result<(), PdfError> {
                 points.iter().all(|(x, y)| x.is_finite() && y.is_finite())
                     && stroke.width.is_finite()
                     && stroke.grey.is_finite()
-                    && stroke
-                        .dash
-                        .is_none_or(|(a, b)| a.is_finite() && b.is_finite())
+                    && stroke.dash.is_none_or(|(a, b)| a.is_finite() && b.is_finite())
             }
-            Shape::Text { at, size, .. } => {
-                at.0.is_finite() && at.1.is_finite() && size.is_finite()
-            }
+            Shape::Text { at, size, .. } => at.0.is_finite() && at.1.is_finite() && size.is_finite(),
         };
         if !finite {
-            return Err(bad(format!(
-                "shape {} has a value that is not finite",
-                i + 1
-            )));
+            return Err(bad(format!("shape {} has a value that is not finite", i + 1)));
         }
     }
     Ok(())
@@ -78,23 +61,12 @@ fn validate(name: &str, d: &Drawing) -> Result<(), PdfError> {
 impl Layouter<'_> {
     /// Scale factor and caption lines of a figure placed in `width` points.
     fn figure_fit(&self, d: &Drawing, caption: &str, width: f32) -> (f32, usize) {
-        let span = super::blocks::Span {
-            text: caption.to_string(),
-            bold: false,
-            italic: false,
-            code: false,
-        };
-        let lines = if caption.trim().is_empty() {
-            0
-        } else {
-            wrap(self.faces, &[span], caption_style(), width).len()
-        };
+        let span = super::blocks::Span { text: caption.to_string(), bold: false, italic: false, code: false };
+        let lines = if caption.trim().is_empty() { 0 } else { wrap(self.faces, &[span], caption_style(), width).len() };
         let caption_h = lines as f32 * CAPTION_SIZE * LEADING + CAPTION_GAP;
         let w = d.width as f32 * MM;
         let h = d.height as f32 * MM;
-        let scale = 1.0f32
-            .min(width / w)
-            .min((self.body_height() - caption_h - 2.0).max(10.0) / h);
+        let scale = 1.0f32.min(width / w).min((self.body_height() - caption_h - 2.0).max(10.0) / h);
         (scale, lines)
     }
 
@@ -114,9 +86,7 @@ impl Layouter<'_> {
     /// Places the figure `name` centred in the column from `x`, `width` wide.
     pub fn figure(&mut self, name: &str, alt: &str, x: f32, width: f32) -> Result<(), PdfError> {
         let figures = self.figures;
-        let d = figures.get(name).ok_or_else(|| PdfError::UnknownFigure {
-            name: name.to_string(),
-        })?;
+        let d = figures.get(name).ok_or_else(|| PdfError::UnknownFigure { name: name.to_string() })?;
         validate(name, d)?;
         let caption = caption_text(alt, d).to_string();
         let total = self.figure_height(name, alt, width);
@@ -131,11 +101,7 @@ impl Layouter<'_> {
         let map = |(px, py): (f64, f64)| (left + px as f32 * k, top + py as f32 * k);
         for shape in &d.shapes {
             match shape {
-                Shape::Polyline {
-                    points,
-                    stroke,
-                    closed,
-                } => {
+                Shape::Polyline { points, stroke, closed } => {
                     if points.len() < 2 {
                         continue;
                     }
@@ -151,12 +117,7 @@ impl Layouter<'_> {
                         dash,
                     });
                 }
-                Shape::Text {
-                    at,
-                    size,
-                    text,
-                    anchor,
-                } => {
+                Shape::Text { at, size, text, anchor } => {
                     let size = (*size as f32 * s).max(MIN_LABEL);
                     let text = super::fonts::printable(self.faces, Face::Regular, text);
                     let tw = metrics(self.faces, Face::Regular).width(&text, size);
@@ -172,12 +133,7 @@ impl Layouter<'_> {
         }
         self.y = top + h + CAPTION_GAP;
         if !caption.trim().is_empty() {
-            let span = super::blocks::Span {
-                text: caption,
-                bold: false,
-                italic: false,
-                code: false,
-            };
+            let span = super::blocks::Span { text: caption, bold: false, italic: false, code: false };
             let lh = CAPTION_SIZE * LEADING;
             for line in wrap(self.faces, &[span], caption_style(), width) {
                 let baseline = self.y + lh * super::layout::BASELINE;

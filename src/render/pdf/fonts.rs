@@ -31,13 +31,7 @@ pub enum Face {
 
 impl Face {
     /// All faces, in the order their resources are named in the PDF.
-    pub const ALL: [Face; 5] = [
-        Face::Regular,
-        Face::Bold,
-        Face::Italic,
-        Face::BoldItalic,
-        Face::Mono,
-    ];
+    pub const ALL: [Face; 5] = [Face::Regular, Face::Bold, Face::Italic, Face::BoldItalic, Face::Mono];
 
     /// The face for a combination of strong and emphasis flags.
     pub fn styled(bold: bool, italic: bool) -> Face {
@@ -127,24 +121,15 @@ impl FaceMetrics {
         }
         let mut ascii = [0u16; 128];
         for (code, slot) in ascii.iter_mut().enumerate() {
-            *slot = font
-                .lookup_glyph_index(code as u32)
-                .and_then(|gid| font.get_glyph_width(gid))
-                .unwrap_or(0);
+            *slot = font.lookup_glyph_index(code as u32).and_then(|gid| font.get_glyph_width(gid)).unwrap_or(0);
         }
         let units_per_em = f32::from(font.units_per_em);
-        Ok(FaceMetrics {
-            font,
-            ascii,
-            units_per_em,
-        })
+        Ok(FaceMetrics { font, ascii, units_per_em })
     }
 
     /// Whether the face has a glyph for the character.
     pub fn has_glyph(&self, ch: char) -> bool {
-        self.font
-            .lookup_glyph_index(ch as u32)
-            .is_some_and(|gid| gid != 0)
+        self.font.lookup_glyph_index(ch as u32).is_some_and(|gid| gid != 0)
     }
 
     /// Advance width of one character, in em (multiply by the size in points).
@@ -152,10 +137,7 @@ impl FaceMetrics {
         let units = if (ch as u32) < 128 {
             self.ascii[ch as usize]
         } else {
-            self.font
-                .lookup_glyph_index(ch as u32)
-                .and_then(|gid| self.font.get_glyph_width(gid))
-                .unwrap_or(0)
+            self.font.lookup_glyph_index(ch as u32).and_then(|gid| self.font.get_glyph_width(gid)).unwrap_or(0)
         };
         f32::from(units) / self.units_per_em
     }
@@ -174,10 +156,7 @@ type FaceCache = Result<Vec<FaceMetrics>, (Face, String)>;
 fn cache() -> &'static FaceCache {
     static FACES: OnceLock<FaceCache> = OnceLock::new();
     FACES.get_or_init(|| {
-        Face::ALL
-            .iter()
-            .map(|&face| FaceMetrics::parse(face).map_err(|message| (face, message)))
-            .collect()
+        Face::ALL.iter().map(|&face| FaceMetrics::parse(face).map_err(|message| (face, message))).collect()
     })
 }
 
@@ -185,10 +164,9 @@ fn cache() -> &'static FaceCache {
 pub fn faces() -> Result<&'static [FaceMetrics], PdfError> {
     match cache() {
         Ok(faces) => Ok(faces),
-        Err((face, message)) => Err(PdfError::Font {
-            face: face.postscript_name().to_string(),
-            message: message.clone(),
-        }),
+        Err((face, message)) => {
+            Err(PdfError::Font { face: face.postscript_name().to_string(), message: message.clone() })
+        }
     }
 }
 
@@ -202,37 +180,23 @@ pub fn metrics(faces: &[FaceMetrics], face: Face) -> &FaceMetrics {
 /// be added to a document. Glyphs are renumbered by the subsetter; the subset's
 /// own character map is what the PDF writer consults, so text drawn with the
 /// returned font maps to the new numbers.
-pub fn subset(
-    faces: &[FaceMetrics],
-    face: Face,
-    chars: &BTreeSet<char>,
-) -> Result<ParsedFont, PdfError> {
+pub fn subset(faces: &[FaceMetrics], face: Face, chars: &BTreeSet<char>) -> Result<ParsedFont, PdfError> {
     use allsorts::binary::read::ReadScope;
     use allsorts::font_data::FontData;
     use allsorts::subset::{CmapTarget, SubsetProfile};
 
-    let font_error = |message: String| PdfError::Font {
-        face: face.postscript_name().to_string(),
-        message,
-    };
+    let font_error = |message: String| PdfError::Font { face: face.postscript_name().to_string(), message };
     let full = &metrics(faces, face).font;
     // Glyph 0 must come first; the BTreeSet keeps the rest sorted and unique,
     // which makes the subset (and so the output bytes) independent of the order
     // in which characters were met.
-    let glyphs: BTreeSet<u16> = chars
-        .iter()
-        .filter_map(|&c| full.lookup_glyph_index(c as u32))
-        .filter(|&gid| gid != 0)
-        .collect();
+    let glyphs: BTreeSet<u16> =
+        chars.iter().filter_map(|&c| full.lookup_glyph_index(c as u32)).filter(|&gid| gid != 0).collect();
     let ids: Vec<u16> = std::iter::once(0).chain(glyphs).collect();
 
     let scope = ReadScope::new(face.bytes());
-    let font_file = scope
-        .read::<FontData<'_>>()
-        .map_err(|e| font_error(format!("cannot read the font file: {e}")))?;
-    let provider = font_file
-        .table_provider(0)
-        .map_err(|e| font_error(format!("cannot read the font tables: {e}")))?;
+    let font_file = scope.read::<FontData<'_>>().map_err(|e| font_error(format!("cannot read the font file: {e}")))?;
+    let provider = font_file.table_provider(0).map_err(|e| font_error(format!("cannot read the font tables: {e}")))?;
     let bytes = allsorts::subset::subset(&provider, &ids, &SubsetProfile::Pdf, CmapTarget::Unicode)
         .map_err(|e| font_error(format!("cannot subset the font: {e}")))?;
 
@@ -330,10 +294,6 @@ mod tests {
             assert!(sub.lookup_glyph_index(*ch as u32).is_some(), "{ch} lost");
         }
         assert!(sub.lookup_glyph_index('Z' as u32).is_none());
-        assert!(
-            sub.original_bytes.len() < 40_000,
-            "{}",
-            sub.original_bytes.len()
-        );
+        assert!(sub.original_bytes.len() < 40_000, "{}", sub.original_bytes.len());
     }
 }

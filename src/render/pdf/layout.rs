@@ -58,13 +58,7 @@ impl Geometry {
             Paper::A4 => (210.0, 297.0),
             Paper::Letter => (215.9, 279.4),
         };
-        Geometry {
-            height: h * MM,
-            left: 20.0 * MM,
-            right: (w - 20.0) * MM,
-            top: 23.0 * MM,
-            bottom: (h - 20.0) * MM,
-        }
+        Geometry { height: h * MM, left: 20.0 * MM, right: (w - 20.0) * MM, top: 23.0 * MM, bottom: (h - 20.0) * MM }
     }
 
     /// Width of the text area.
@@ -120,13 +114,7 @@ pub enum Item {
 impl Item {
     /// A solid horizontal or vertical rule.
     pub fn rule(from: (f32, f32), to: (f32, f32), width: f32, grey: f32) -> Item {
-        Item::Stroke {
-            points: vec![from, to],
-            closed: false,
-            width,
-            grey,
-            dash: None,
-        }
+        Item::Stroke { points: vec![from, to], closed: false, width, grey, dash: None }
     }
 }
 
@@ -134,16 +122,8 @@ impl Item {
 /// page when the content is: the bar of a quote, the shading of a code block.
 #[derive(Debug, Clone, Copy)]
 enum Frame {
-    Bar {
-        x: f32,
-        start: f32,
-    },
-    Shade {
-        x: f32,
-        w: f32,
-        start: f32,
-        item: usize,
-    },
+    Bar { x: f32, start: f32 },
+    Shade { x: f32, w: f32, start: f32, item: usize },
 }
 
 /// A list marker waiting for the first line of its item.
@@ -203,11 +183,7 @@ fn heading_size(level: u8) -> f32 {
 
 impl<'a> Layouter<'a> {
     /// A layouter with one empty page.
-    pub fn new(
-        faces: &'a [FaceMetrics],
-        figures: &'a BTreeMap<String, Drawing>,
-        geo: Geometry,
-    ) -> Layouter<'a> {
+    pub fn new(faces: &'a [FaceMetrics], figures: &'a BTreeMap<String, Drawing>, geo: Geometry) -> Layouter<'a> {
         Layouter {
             faces,
             figures,
@@ -281,13 +257,7 @@ impl<'a> Layouter<'a> {
                 let item = self.pages.last().map_or(0, Vec::len);
                 // A placeholder, sized when the frame closes; it is pushed now so
                 // that it is painted under the text it shades.
-                self.push(Item::Fill {
-                    x,
-                    y: start,
-                    w,
-                    h: 0.0,
-                    grey: 0.95,
-                });
+                self.push(Item::Fill { x, y: start, w, h: 0.0, grey: 0.95 });
                 Frame::Shade { x, w, start, item }
             }
         };
@@ -302,9 +272,7 @@ impl<'a> Layouter<'a> {
                 }
             }
             Frame::Shade { start, item, .. } => {
-                if let Some(Item::Fill { h, .. }) =
-                    self.pages.last_mut().and_then(|p| p.get_mut(item))
-                {
+                if let Some(Item::Fill { h, .. }) = self.pages.last_mut().and_then(|p| p.get_mut(item)) {
                     *h = (end - start).max(0.0);
                 }
             }
@@ -322,13 +290,7 @@ impl<'a> Layouter<'a> {
     pub fn take_marker(&mut self, baseline: f32) {
         if let Some(m) = self.marker.take() {
             let w = metrics(self.faces, Face::Regular).width(&m.text, BODY_SIZE);
-            self.push(Item::Text {
-                x: m.right - w,
-                y: baseline,
-                face: Face::Regular,
-                size: BODY_SIZE,
-                text: m.text,
-            });
+            self.push(Item::Text { x: m.right - w, y: baseline, face: Face::Regular, size: BODY_SIZE, text: m.text });
         }
     }
 
@@ -370,11 +332,8 @@ impl<'a> Layouter<'a> {
         for (i, block) in blocks.iter().enumerate() {
             if i > 0 {
                 let prev = &blocks[i - 1];
-                let gap = if matches!(prev, Block::Heading { .. }) {
-                    4.0
-                } else {
-                    gap_after(prev).max(gap_before(block))
-                };
+                let gap =
+                    if matches!(prev, Block::Heading { .. }) { 4.0 } else { gap_after(prev).max(gap_before(block)) };
                 self.space(gap);
             }
             self.block(block, &blocks[i + 1..], x, width)?;
@@ -389,16 +348,9 @@ impl<'a> Layouter<'a> {
                 let lines = wrap(self.faces, spans, body_style(), width);
                 self.place_lines(&lines, x, BODY_SIZE);
             }
-            Block::List {
-                start,
-                tight,
-                items,
-            } => self.list(*start, *tight, items, x, width)?,
+            Block::List { start, tight, items } => self.list(*start, *tight, items, x, width)?,
             Block::Quote(inner) => {
-                self.open_frame(Frame::Bar {
-                    x: x + 3.0,
-                    start: 0.0,
-                });
+                self.open_frame(Frame::Bar { x: x + 3.0, start: 0.0 });
                 let r = self.blocks(inner, x + QUOTE_INDENT, width - QUOTE_INDENT);
                 self.pop_frame();
                 r?;
@@ -449,22 +401,13 @@ impl<'a> Layouter<'a> {
         }
     }
 
-    fn heading(
-        &mut self,
-        level: u8,
-        text: &[Span],
-        rest: &[Block],
-        x: f32,
-        width: f32,
-    ) -> Result<(), PdfError> {
+    fn heading(&mut self, level: u8, text: &[Span], rest: &[Block], x: f32, width: f32) -> Result<(), PdfError> {
         let size = heading_size(level);
         let lines = wrap(self.faces, text, heading_style(level), width);
         let lh = size * LEADING;
         let rule = if level == 1 { 4.0 } else { 0.0 };
         let own = lines.len() as f32 * lh + rule;
-        let keep = self
-            .keep_height(rest, width, 0)
-            .min(self.body_height() - own);
+        let keep = self.keep_height(rest, width, 0).min(self.body_height() - own);
         self.ensure(own + keep.max(0.0));
         for line in &lines {
             self.ensure(lh);
@@ -501,10 +444,7 @@ impl<'a> Layouter<'a> {
                 Some(n) => format!("{}.", n.saturating_add(i as u64)),
                 None => bullets[depth % bullets.len()].to_string(),
             };
-            self.marker = Some(Marker {
-                text,
-                right: x + LIST_INDENT - 4.5,
-            });
+            self.marker = Some(Marker { text, right: x + LIST_INDENT - 4.5 });
             result = self.blocks(item, x + LIST_INDENT, width - LIST_INDENT);
             if result.is_err() {
                 break;
@@ -530,12 +470,7 @@ impl<'a> Layouter<'a> {
         // Like a paragraph, a code block never leaves one line alone at the
         // bottom of a page.
         self.ensure(lines.len().min(2) as f32 * lh + pad);
-        self.open_frame(Frame::Shade {
-            x,
-            w: width,
-            start: 0.0,
-            item: 0,
-        });
+        self.open_frame(Frame::Shade { x, w: width, start: 0.0, item: 0 });
         self.y += pad / 2.0;
         for line in &lines {
             if !self.fits(lh + pad / 2.0) {
@@ -564,13 +499,7 @@ impl<'a> Layouter<'a> {
     pub fn text_at(&mut self, x: f32, baseline: f32, face: Face, size: f32, text: &str) {
         let text = printable(self.faces, face, text);
         if !text.trim().is_empty() {
-            self.push(Item::Text {
-                x,
-                y: baseline,
-                face,
-                size,
-                text,
-            });
+            self.push(Item::Text { x, y: baseline, face, size, text });
         }
     }
 
@@ -589,18 +518,10 @@ impl<'a> Layouter<'a> {
 
 /// The style of running text.
 pub fn body_style() -> BaseStyle {
-    BaseStyle {
-        size: BODY_SIZE,
-        bold: false,
-        italic: false,
-    }
+    BaseStyle { size: BODY_SIZE, bold: false, italic: false }
 }
 
 /// The style of a heading level.
 fn heading_style(level: u8) -> BaseStyle {
-    BaseStyle {
-        size: heading_size(level),
-        bold: true,
-        italic: level >= 4,
-    }
+    BaseStyle { size: heading_size(level), bold: true, italic: level >= 4 }
 }

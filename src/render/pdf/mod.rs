@@ -129,18 +129,16 @@ pub enum PdfError {
 impl fmt::Display for PdfError {
     fn fmt(&self, f: &mut fmt::Formatter<'_>) -> fmt::Result {
         match self {
-            PdfError::UnknownFigure { name } => write!(
-                f,
-                "the document shows figure `{name}`, but no figure of that name was supplied"
-            ),
+            PdfError::UnknownFigure { name } => {
+                write!(f, "the document shows figure `{name}`, but no figure of that name was supplied")
+            }
             PdfError::InvalidFigure { name, reason } => {
                 write!(f, "figure `{name}` cannot be drawn: {reason}")
             }
             PdfError::Font { face, message } => write!(f, "font {face}: {message}"),
-            PdfError::InvalidDate { date } => write!(
-                f,
-                "document date `{date}` is not a valid calendar date of the form YYYY-MM-DD"
-            ),
+            PdfError::InvalidDate { date } => {
+                write!(f, "document date `{date}` is not a valid calendar date of the form YYYY-MM-DD")
+            }
             PdfError::Write { message } => write!(f, "cannot write the PDF: {message}"),
         }
     }
@@ -150,9 +148,7 @@ impl std::error::Error for PdfError {}
 
 /// Parses an ISO `YYYY-MM-DD` date into a PDF date string at 00:00:00 UTC.
 fn pdf_date(date: &str) -> Result<String, PdfError> {
-    let bad = || PdfError::InvalidDate {
-        date: date.to_string(),
-    };
+    let bad = || PdfError::InvalidDate { date: date.to_string() };
     let b = date.as_bytes();
     if b.len() != 10 || b[4] != b'-' || b[7] != b'-' {
         return Err(bad());
@@ -206,10 +202,7 @@ fn finish_document(doc: &mut lopdf::Document, options: &PdfOptions) -> Result<()
     info.set("Subject", text_string(&meta.subject));
     info.set("Keywords", text_string(&meta.keywords.join(", ")));
     info.set("Creator", text_string("Knuckle"));
-    info.set(
-        "Producer",
-        text_string(concat!("Knuckle ", env!("CARGO_PKG_VERSION"))),
-    );
+    info.set("Producer", text_string(concat!("Knuckle ", env!("CARGO_PKG_VERSION"))));
     info.set("CreationDate", text_string(&date));
     info.set("ModDate", text_string(&date));
     match doc.trailer.get(b"Info").and_then(Object::as_reference) {
@@ -260,16 +253,10 @@ pub fn markdown_to_pdf(
         let font = fonts::subset(faces, face, chars)?;
         // Resource names are fixed per face: printpdf's own ids come from a
         // counter and would differ between two calls in one process.
-        doc.resources
-            .fonts
-            .map
-            .insert(FontId(face.resource_name().to_string()), PdfFont::new(font));
+        doc.resources.fonts.map.insert(FontId(face.resource_name().to_string()), PdfFont::new(font));
     }
     let (w, h) = options.paper.size_mm();
-    doc.pages = page_ops
-        .into_iter()
-        .map(|ops| PdfPage::new(Mm(w), Mm(h), ops))
-        .collect();
+    doc.pages = page_ops.into_iter().map(|ops| PdfPage::new(Mm(w), Mm(h), ops)).collect();
 
     let save = PdfSaveOptions {
         optimize: false,
@@ -283,9 +270,7 @@ pub fn markdown_to_pdf(
     finish_document(&mut lo, options)?;
     lo.compress();
     let mut out = Vec::new();
-    lo.save_to(&mut out).map_err(|e| PdfError::Write {
-        message: e.to_string(),
-    })?;
+    lo.save_to(&mut out).map_err(|e| PdfError::Write { message: e.to_string() })?;
     Ok(out)
 }
 
@@ -295,10 +280,7 @@ mod tests {
 
     #[test]
     fn dates_are_checked_and_converted() {
-        assert_eq!(
-            pdf_date("2024-02-29").as_deref(),
-            Ok("D:20240229000000+00'00'")
-        );
+        assert_eq!(pdf_date("2024-02-29").as_deref(), Ok("D:20240229000000+00'00'"));
         // 2023 is not a leap year (Gregorian calendar rule).
         assert!(pdf_date("2023-02-29").is_err());
         assert!(pdf_date("2024-13-01").is_err());
@@ -309,10 +291,7 @@ mod tests {
 
     #[test]
     fn text_strings_are_utf16_when_not_ascii() {
-        assert_eq!(
-            text_string("Rev B"),
-            Object::String(b"Rev B".to_vec(), StringFormat::Literal)
-        );
+        assert_eq!(text_string("Rev B"), Object::String(b"Rev B".to_vec(), StringFormat::Literal));
         let Object::String(bytes, StringFormat::Hexadecimal) = text_string("σ") else {
             panic!("not hex");
         };
@@ -322,13 +301,9 @@ mod tests {
 
     #[test]
     fn errors_name_what_was_wrong() {
-        let e = PdfError::UnknownFigure {
-            name: "head-profile".into(),
-        };
+        let e = PdfError::UnknownFigure { name: "head-profile".into() };
         assert!(e.to_string().contains("head-profile"));
-        let e = PdfError::InvalidDate {
-            date: "yesterday".into(),
-        };
+        let e = PdfError::InvalidDate { date: "yesterday".into() };
         assert!(e.to_string().contains("yesterday"));
     }
 }

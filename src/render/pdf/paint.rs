@@ -2,8 +2,8 @@
 //! and footer that need the final page count.
 
 use printpdf::{
-    Color, FontId, Greyscale, Line, LineDashPattern, LinePoint, Op, PaintMode, PdfFontHandle,
-    Point, Pt, Rect, TextItem, TextMatrix,
+    Color, FontId, Greyscale, Line, LineDashPattern, LinePoint, Op, PaintMode, PdfFontHandle, Point, Pt, Rect,
+    TextItem, TextMatrix,
 };
 
 use super::fonts::{metrics, printable, Face, FaceMetrics, UsedChars};
@@ -42,13 +42,7 @@ fn fit(faces: &[FaceMetrics], face: Face, size: f32, text: &str, width: f32) -> 
 }
 
 /// The running header and footer of page `number` of `count`.
-fn running(
-    faces: &[FaceMetrics],
-    geo: &Geometry,
-    options: &PdfOptions,
-    number: usize,
-    count: usize,
-) -> Vec<Item> {
+fn running(faces: &[FaceMetrics], geo: &Geometry, options: &PdfOptions, number: usize, count: usize) -> Vec<Item> {
     let face = Face::Regular;
     let size = RUNNING_SIZE;
     let m = metrics(faces, face);
@@ -62,35 +56,14 @@ fn running(
         let left = fit(faces, face, size, &left, width - right_w - 12.0);
         for (x, text) in [(geo.left, left), (geo.right - right_w, right)] {
             if !text.trim().is_empty() {
-                items.push(Item::Text {
-                    x,
-                    y: baseline,
-                    face,
-                    size,
-                    text,
-                });
+                items.push(Item::Text { x, y: baseline, face, size, text });
             }
         }
-        items.push(Item::rule(
-            (geo.left, rule),
-            (geo.right, rule),
-            0.4,
-            RUNNING_GREY,
-        ));
+        items.push(Item::rule((geo.left, rule), (geo.right, rule), 0.4, RUNNING_GREY));
     };
-    pair(
-        &options.header_left,
-        &options.header_right,
-        13.0 * MM,
-        15.0 * MM,
-    );
+    pair(&options.header_left, &options.header_right, 13.0 * MM, 15.0 * MM);
     let footer_rule = geo.height - 15.0 * MM;
-    pair(
-        &options.footer_left,
-        &format!("Page {number} of {count}"),
-        geo.height - 11.0 * MM,
-        footer_rule,
-    );
+    pair(&options.footer_left, &format!("Page {number} of {count}"), geo.height - 11.0 * MM, footer_rule);
     items
 }
 
@@ -106,41 +79,20 @@ struct State {
 }
 
 fn point(geo: &Geometry, (x, y): (f32, f32)) -> LinePoint {
-    LinePoint {
-        p: Point {
-            x: Pt(x),
-            y: Pt(geo.height - y),
-        },
-        bezier: false,
-    }
+    LinePoint { p: Point { x: Pt(x), y: Pt(geo.height - y) }, bezier: false }
 }
 
 /// Appends the operations for one item, recording the characters used.
-fn paint_item(
-    item: &Item,
-    geo: &Geometry,
-    header_grey: bool,
-    st: &mut State,
-    ops: &mut Vec<Op>,
-    used: &mut UsedChars,
-) {
+fn paint_item(item: &Item, geo: &Geometry, header_grey: bool, st: &mut State, ops: &mut Vec<Op>, used: &mut UsedChars) {
     let text_grey = if header_grey { RUNNING_GREY } else { 0.0 };
     match item {
-        Item::Text {
-            x,
-            y,
-            face,
-            size,
-            text,
-        } => {
+        Item::Text { x, y, face, size, text } => {
             if !st.in_text {
                 ops.push(Op::StartTextSection);
                 st.in_text = true;
             }
             if st.fill != Some(text_grey) {
-                ops.push(Op::SetFillColor {
-                    col: grey(text_grey),
-                });
+                ops.push(Op::SetFillColor { col: grey(text_grey) });
                 st.fill = Some(text_grey);
             }
             if st.font != Some((*face, *size)) {
@@ -150,21 +102,11 @@ fn paint_item(
                 });
                 st.font = Some((*face, *size));
             }
-            ops.push(Op::SetTextMatrix {
-                matrix: TextMatrix::Translate(Pt(*x), Pt(geo.height - *y)),
-            });
-            ops.push(Op::ShowText {
-                items: vec![TextItem::Text(text.clone())],
-            });
+            ops.push(Op::SetTextMatrix { matrix: TextMatrix::Translate(Pt(*x), Pt(geo.height - *y)) });
+            ops.push(Op::ShowText { items: vec![TextItem::Text(text.clone())] });
             used.add(*face, text);
         }
-        Item::Stroke {
-            points,
-            closed,
-            width,
-            grey: g,
-            dash,
-        } => {
+        Item::Stroke { points, closed, width, grey: g, dash } => {
             end_text(st, ops);
             if st.stroke != Some(*g) {
                 ops.push(Op::SetOutlineColor { col: grey(*g) });
@@ -183,19 +125,10 @@ fn paint_item(
                 st.dash = Some(*dash);
             }
             ops.push(Op::DrawLine {
-                line: Line {
-                    points: points.iter().map(|p| point(geo, *p)).collect(),
-                    is_closed: *closed,
-                },
+                line: Line { points: points.iter().map(|p| point(geo, *p)).collect(), is_closed: *closed },
             });
         }
-        Item::Fill {
-            x,
-            y,
-            w,
-            h,
-            grey: g,
-        } => {
+        Item::Fill { x, y, w, h, grey: g } => {
             if *h <= 0.0 || *w <= 0.0 {
                 return;
             }

@@ -29,11 +29,7 @@ const HEAD_RULE: f32 = 0.4;
 const ROW_RULE: (f32, f32) = (0.25, 0.7);
 
 fn style(bold: bool) -> BaseStyle {
-    BaseStyle {
-        size: SIZE,
-        bold,
-        italic: false,
-    }
+    BaseStyle { size: SIZE, bold, italic: false }
 }
 
 /// A row with its cells broken into lines.
@@ -66,16 +62,8 @@ fn column_widths(min: &[f32], max: &[f32], avail: f32) -> Vec<f32> {
         return max.iter().map(|m| m + extra * m / sum_max).collect();
     }
     if sum_min <= avail {
-        let share = if sum_max > sum_min {
-            (avail - sum_min) / (sum_max - sum_min)
-        } else {
-            0.0
-        };
-        return min
-            .iter()
-            .zip(max)
-            .map(|(lo, hi)| lo + (hi - lo) * share)
-            .collect();
+        let share = if sum_max > sum_min { (avail - sum_min) / (sum_max - sum_min) } else { 0.0 };
+        return min.iter().zip(max).map(|(lo, hi)| lo + (hi - lo) * share).collect();
     }
     // Even the longest words do not fit: scale them down; the words will then
     // be broken between characters.
@@ -89,9 +77,7 @@ impl Layouter<'_> {
     fn measure(&self, t: &Table, width: f32) -> Measured {
         let cols = t.columns();
         let empty: Vec<Span> = Vec::new();
-        let cell = |row: &[Vec<Span>], c: usize| -> Vec<Span> {
-            row.get(c).cloned().unwrap_or_else(|| empty.clone())
-        };
+        let cell = |row: &[Vec<Span>], c: usize| -> Vec<Span> { row.get(c).cloned().unwrap_or_else(|| empty.clone()) };
         let mut min = vec![2.0 * PAD_X; cols];
         let mut max = vec![2.0 * PAD_X; cols];
         for c in 0..cols {
@@ -108,25 +94,12 @@ impl Layouter<'_> {
         }
         let widths = column_widths(&min, &max, width);
         let lay_row = |row: &[Vec<Span>], bold: bool| -> Row {
-            let cells: Vec<Vec<TextLine>> = (0..cols)
-                .map(|c| {
-                    wrap(
-                        self.faces,
-                        &cell(row, c),
-                        style(bold),
-                        widths[c] - 2.0 * PAD_X,
-                    )
-                })
-                .collect();
+            let cells: Vec<Vec<TextLine>> =
+                (0..cols).map(|c| wrap(self.faces, &cell(row, c), style(bold), widths[c] - 2.0 * PAD_X)).collect();
             let lines = cells.iter().map(Vec::len).max().unwrap_or(1);
-            Row {
-                height: lines as f32 * LINE + 2.0 * PAD_Y,
-                cells,
-            }
+            Row { height: lines as f32 * LINE + 2.0 * PAD_Y, cells }
         };
-        let aligns = (0..cols)
-            .map(|c| t.aligns.get(c).copied().unwrap_or(Align::Left))
-            .collect();
+        let aligns = (0..cols).map(|c| t.aligns.get(c).copied().unwrap_or(Align::Left)).collect();
         Measured {
             head: lay_row(&t.head, true),
             rows: t.rows.iter().map(|r| lay_row(r, false)).collect(),
@@ -164,12 +137,7 @@ impl Layouter<'_> {
     }
 
     fn draw_head(&mut self, m: &Measured, x: f32, width: f32) {
-        self.push(Item::rule(
-            (x, self.y),
-            (x + width, self.y),
-            OUTER_RULE,
-            0.0,
-        ));
+        self.push(Item::rule((x, self.y), (x + width, self.y), OUTER_RULE, 0.0));
         let lines = m.head.cells.iter().map(Vec::len).max().unwrap_or(0);
         self.draw_row_lines(m, &m.head, x, 0, lines);
         self.y += m.head.height;
@@ -178,12 +146,7 @@ impl Layouter<'_> {
 
     /// Closes the table part on this page and repeats the head on the next.
     fn continue_table(&mut self, m: &Measured, x: f32, width: f32) {
-        self.push(Item::rule(
-            (x, self.y),
-            (x + width, self.y),
-            OUTER_RULE,
-            0.0,
-        ));
+        self.push(Item::rule((x, self.y), (x + width, self.y), OUTER_RULE, 0.0));
         self.page_break();
         self.draw_head(m, x, width);
     }
@@ -219,21 +182,11 @@ impl Layouter<'_> {
                 self.hairline(x, width);
             }
         }
-        self.push(Item::rule(
-            (x, self.y),
-            (x + width, self.y),
-            OUTER_RULE,
-            0.0,
-        ));
+        self.push(Item::rule((x, self.y), (x + width, self.y), OUTER_RULE, 0.0));
     }
 
     fn hairline(&mut self, x: f32, width: f32) {
-        self.push(Item::rule(
-            (x, self.y),
-            (x + width, self.y),
-            ROW_RULE.0,
-            ROW_RULE.1,
-        ));
+        self.push(Item::rule((x, self.y), (x + width, self.y), ROW_RULE.0, ROW_RULE.1));
     }
 
     /// A row taller than a whole page cannot be kept together: it is split
@@ -246,11 +199,7 @@ impl Layouter<'_> {
         let mut fresh = false;
         while from < total {
             let room = ((self.geo.bottom - self.y - 2.0 * PAD_Y) / LINE).floor();
-            let take = if room >= 1.0 {
-                room as usize
-            } else {
-                usize::from(fresh)
-            };
+            let take = if room >= 1.0 { room as usize } else { usize::from(fresh) };
             if take == 0 {
                 self.continue_table(m, x, width);
                 fresh = true;

@@ -53,12 +53,7 @@ impl TextLine {
         let w = metrics(faces, face).width(text, size);
         match self.frags.last_mut() {
             Some(last) if last.face == face && last.size == size => last.text.push_str(text),
-            _ => self.frags.push(Frag {
-                dx: self.width,
-                face,
-                size,
-                text: text.to_string(),
-            }),
+            _ => self.frags.push(Frag { dx: self.width, face, size, text: text.to_string() }),
         }
         self.width += w;
     }
@@ -98,10 +93,7 @@ fn face_and_size(span: &Span, base: BaseStyle) -> (Face, f32) {
     if span.code {
         (Face::Mono, base.size * CODE_SCALE)
     } else {
-        (
-            Face::styled(base.bold || span.bold, base.italic || span.italic),
-            base.size,
-        )
+        (Face::styled(base.bold || span.bold, base.italic || span.italic), base.size)
     }
 }
 
@@ -143,12 +135,7 @@ fn words(faces: &[FaceMetrics], spans: &[Span], base: BaseStyle) -> Vec<Word> {
                     p.text.push(ch);
                     p.width += w;
                 }
-                _ => word.pieces.push(Piece {
-                    face,
-                    size,
-                    text: ch.to_string(),
-                    width: w,
-                }),
+                _ => word.pieces.push(Piece { face, size, text: ch.to_string(), width: w }),
             }
             word.width += w;
         }
@@ -172,10 +159,7 @@ pub fn wrap(faces: &[FaceMetrics], spans: &[Span], base: BaseStyle, width: f32) 
             lines.push(std::mem::take(&mut cur));
         }
         let space = if !cur.is_empty() && word.space_before {
-            cur.frags
-                .last()
-                .map(|f| metrics(faces, f.face).advance_em(' ') * f.size)
-                .unwrap_or(0.0)
+            cur.frags.last().map(|f| metrics(faces, f.face).advance_em(' ') * f.size).unwrap_or(0.0)
         } else {
             0.0
         };
@@ -266,19 +250,10 @@ mod tests {
     use crate::render::pdf::fonts::faces;
 
     fn span(text: &str) -> Span {
-        Span {
-            text: text.to_string(),
-            bold: false,
-            italic: false,
-            code: false,
-        }
+        Span { text: text.to_string(), bold: false, italic: false, code: false }
     }
 
-    const BODY: BaseStyle = BaseStyle {
-        size: 10.0,
-        bold: false,
-        italic: false,
-    };
+    const BODY: BaseStyle = BaseStyle { size: 10.0, bold: false, italic: false };
 
     #[test]
     fn lines_never_exceed_the_width_and_keep_every_word() {
@@ -290,10 +265,7 @@ mod tests {
             for l in &lines {
                 assert!(l.width <= width + 0.02, "{} > {width}", l.width);
             }
-            let joined: Vec<String> = lines
-                .iter()
-                .map(|l| l.frags.iter().map(|f| f.text.as_str()).collect())
-                .collect();
+            let joined: Vec<String> = lines.iter().map(|l| l.frags.iter().map(|f| f.text.as_str()).collect()).collect();
             assert_eq!(joined.join(" "), text);
         }
     }
@@ -312,17 +284,7 @@ mod tests {
     #[test]
     fn styles_change_the_face_and_code_is_smaller() {
         let faces = faces().expect("faces");
-        let spans = [
-            span("a "),
-            Span {
-                bold: true,
-                ..span("b")
-            },
-            Span {
-                code: true,
-                ..span("c")
-            },
-        ];
+        let spans = [span("a "), Span { bold: true, ..span("b") }, Span { code: true, ..span("c") }];
         let lines = wrap(faces, &spans, BODY, 500.0);
         assert_eq!(lines.len(), 1);
         let faces_used: Vec<Face> = lines[0].frags.iter().map(|f| f.face).collect();

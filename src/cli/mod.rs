@@ -6,6 +6,7 @@
 
 mod check;
 pub mod compile;
+mod heads;
 mod starter;
 pub mod verify;
 
@@ -35,6 +36,8 @@ enum Command {
     Compile(compile::CompileArgs),
     /// Check that a package's files are as compiled (and, with --case, that it recompiles the same).
     Verify(verify::VerifyArgs),
+    /// Compare head shapes for one diameter: depth, volume, area, blank, thickness, mass, deviation.
+    Heads(heads::HeadsArgs),
     /// Write a commented starter case file.
     New {
         /// Where to write the case file (must not exist).
@@ -58,6 +61,7 @@ pub fn run(args: Vec<OsString>) -> i32 {
         Command::Check(a) => check::run(&a),
         Command::Compile(a) => compile::run(&a),
         Command::Verify(a) => verify::run(&a),
+        Command::Heads(a) => heads::run(&a),
         Command::New { path } => starter::write_new(&path),
         Command::Schema => {
             println!("{}", starter::schema_text());

@@ -22,6 +22,7 @@ pub mod drawing;
 pub mod expr;
 pub mod fsio;
 pub mod geometry;
+pub mod inspection;
 pub mod model;
 pub mod package;
 pub mod pipeline;

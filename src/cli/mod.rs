@@ -7,6 +7,7 @@
 mod check;
 pub mod compile;
 mod heads;
+mod inspect;
 mod starter;
 pub mod verify;
 
@@ -38,6 +39,8 @@ enum Command {
     Verify(verify::VerifyArgs),
     /// Compare head shapes for one diameter: depth, volume, area, blank, thickness, mass, deviation.
     Heads(heads::HeadsArgs),
+    /// Judge measured points of a formed head against its specified profile (UG-81) and write a record.
+    InspectHead(inspect::InspectArgs),
     /// Write a commented starter case file.
     New {
         /// Where to write the case file (must not exist).
@@ -62,6 +65,7 @@ pub fn run(args: Vec<OsString>) -> i32 {
         Command::Compile(a) => compile::run(&a),
         Command::Verify(a) => verify::run(&a),
         Command::Heads(a) => heads::run(&a),
+        Command::InspectHead(a) => inspect::run(&a),
         Command::New { path } => starter::write_new(&path),
         Command::Schema => {
             println!("{}", starter::schema_text());

@@ -117,7 +117,7 @@ pub fn run(a: &VerifyArgs) -> i32 {
                 }
                 all_ok &= report.ok;
                 if let Some(p) = &recompiled {
-                    if p.stem == m.stem() {
+                    if mp.file_name().is_some_and(|n| n.to_string_lossy() == p.manifest_name()) {
                         matched_case = true;
                         let same_digest = p.digest == m.digest;
                         println!(

@@ -222,7 +222,10 @@ impl Layouter<'_> {
         let lines = m.head.cells.iter().map(Vec::len).max().unwrap_or(0);
         self.draw_row_lines(m, &m.head, x, 0, lines);
         self.y += m.head.height;
-        self.push(Item::rule((x, self.y), (x + width, self.y), HEAD_RULE, 0.0));
+        // A table without rows closes with the outer rule alone.
+        if !m.rows.is_empty() {
+            self.push(Item::rule((x, self.y), (x + width, self.y), HEAD_RULE, 0.0));
+        }
     }
 
     /// Closes the table part on this page and repeats the head on the next.

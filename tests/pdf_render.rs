@@ -530,11 +530,15 @@ fn hostile_markdown_renders_without_panicking() {
             .collect::<Vec<_>>()
             .join("|"),
     );
-    let deep_list: String = (0..40)
+    let deep_list: String = (0..300)
         .map(|i| format!("{}- level {i}\n", "  ".repeat(i)))
         .collect();
-    let deep_quote = format!("{} deep\n", ">".repeat(60));
+    let deep_quote = format!("{} deep\n", ">".repeat(5000));
     let tall_cell = format!("| a | b |\n|---|---|\n| {} | x |\n", "word ".repeat(8000));
+    let tall_head = format!(
+        "| {} | b |\n|---|---|\n| 1 | x |\n| 2 | y |\n",
+        "head ".repeat(4000)
+    );
     let inputs = [
         String::new(),
         "   \n\n\n".to_string(),
@@ -547,6 +551,7 @@ fn hostile_markdown_renders_without_panicking() {
         deep_list,
         deep_quote,
         tall_cell,
+        tall_head,
         "| ![in a cell](nothing) | b |\n|---|---|\n| 1 | 2 |\n".to_string(),
         "# ![in a heading](nothing)\n".to_string(),
         "\u{0}\u{7}\u{1b}[31m\u{202e}\u{10ffff}\u{fffe}\t\r\n".to_string(),

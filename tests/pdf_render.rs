@@ -45,32 +45,67 @@ fn has(page: &str, needle: &str) -> bool {
     squash(page).contains(&squash(needle))
 }
 
-/// A head profile: a knuckle and crown drawn as sampled arcs, a dashed centre
-/// line and two labels, like the figures of a calculation package.
+/// A torispherical head profile (crown radius L = D, knuckle radius r = 0.06·D)
+/// built from sampled arcs, with a dashed centre line, a diameter line and
+/// labels, like the figures of a calculation package.
 fn head_drawing() -> Drawing {
+    // Drawing millimetres; y grows downwards. The knuckle centres lie on the
+    // line y = base; the flange runs 15 mm below it.
+    let (axis, base, ro) = (75.0_f64, 42.0_f64, 60.0_f64);
+    let (crown, knuckle) = (2.0 * ro, 0.06 * 2.0 * ro);
+    // Crown centre below the knuckle line so that the arcs meet tangentially:
+    // |crown centre - knuckle centre| = L - r (common practice, no source).
+    let h = ((crown - knuckle).powi(2) - (ro - knuckle).powi(2)).sqrt();
+    let theta = h.atan2(ro - knuckle);
     let arc = |cx: f64, cy: f64, r: f64, a0: f64, a1: f64| -> Vec<(f64, f64)> {
-        (0..=40)
+        (0..=48)
             .map(|i| {
-                let a = a0 + (a1 - a0) * f64::from(i) / 40.0;
+                let a = a0 + (a1 - a0) * f64::from(i) / 48.0;
                 (cx + r * a.cos(), cy - r * a.sin())
             })
             .collect()
     };
-    let mut profile = arc(60.0, 70.0, 50.0, 0.0, 1.1);
-    profile.extend(arc(60.0, 110.0, 95.0, 1.25, std::f64::consts::FRAC_PI_2));
+    let mut right = vec![(axis + ro, base + 15.0)];
+    right.extend(arc(axis + ro - knuckle, base, knuckle, 0.0, theta));
+    right.extend(arc(axis, base + h, crown, theta, std::f64::consts::FRAC_PI_2));
+    // Left flange up to the crown top (the mirror image), then back down the right.
+    let mut profile: Vec<(f64, f64)> = right.iter().map(|&(x, y)| (2.0 * axis - x, y)).collect();
+    profile.extend(right.iter().rev().skip(1));
+    let dim_y = base + 22.0;
     Drawing {
-        width: 140.0,
-        height: 80.0,
+        width: 150.0,
+        height: 75.0,
         caption: "Head profile".to_string(),
         shapes: vec![
             Shape::Polyline { points: profile, stroke: Stroke::solid(0.5), closed: false },
             Shape::Polyline {
-                points: vec![(60.0, 5.0), (60.0, 78.0)],
-                stroke: Stroke::dashed(0.25, 3.0, 1.5).grey(0.4),
+                points: vec![(axis, 4.0), (axis, base + 20.0)],
+                stroke: Stroke::dashed(0.25, 4.0, 1.5).grey(0.4),
                 closed: false,
             },
-            Shape::Text { at: (112.0, 60.0), size: 8.0, text: "r = 0.06·D".to_string(), anchor: Anchor::Start },
-            Shape::Text { at: (60.0, 12.0), size: 8.0, text: "L = D".to_string(), anchor: Anchor::Middle },
+            Shape::Polyline {
+                points: vec![(axis - ro, dim_y), (axis + ro, dim_y)],
+                stroke: Stroke::solid(0.2),
+                closed: false,
+            },
+            Shape::Polyline {
+                points: vec![(axis - ro, dim_y - 2.0), (axis - ro, dim_y + 2.0)],
+                stroke: Stroke::solid(0.2),
+                closed: false,
+            },
+            Shape::Polyline {
+                points: vec![(axis + ro, dim_y - 2.0), (axis + ro, dim_y + 2.0)],
+                stroke: Stroke::solid(0.2),
+                closed: false,
+            },
+            Shape::Text { at: (axis, dim_y + 5.0), size: 8.0, text: "D = 1200 mm".to_string(), anchor: Anchor::Middle },
+            Shape::Text {
+                at: (axis + ro + 2.0, base - 4.0),
+                size: 8.0,
+                text: "r = 0.06·D".to_string(),
+                anchor: Anchor::Start,
+            },
+            Shape::Text { at: (axis + 3.0, 14.0), size: 8.0, text: "L = D".to_string(), anchor: Anchor::Start },
         ],
     }
 }
@@ -98,7 +133,12 @@ fn sample_markdown() -> String {
         ));
     }
     md.push_str(
-        "\n![Torispherical head profile with the knuckle and crown radii](head)\n\n\
+        "\n### 1.0 Loadings\n\n\
+         | Load case | Pressure | Temperature | Allowable stress | Joint efficiency | Governing formula | Remark |\n\
+         |---|---|---|---|---|---|---|\n\
+         | Design | 1.20 MPa internal | 150 °C | S = 138 MPa at design temperature | E = 0.85 (spot radiography, UW-12) | t = P·R/(S·E − 0.6·P) | circumferential stress governs |\n\
+         | Hydrostatic test | 1.3 × MAWP × (S_test/S_design) | ambient, 20 °C | S = 138 MPa | E = 0.85 | P_T = 1.3·MAWP·S_T/S | UG-99(b); a long remark that must wrap over several lines of its narrow cell |\n\
+         \n![Torispherical head profile with the knuckle and crown radii](head)\n\n\
          ### 1.1 Notes\n\n\
          - Joint efficiency from UW-12, full radiography.\n\
          - Corrosion allowance added to the required thickness.\n  \
@@ -112,6 +152,36 @@ fn sample_markdown() -> String {
              wrap across several lines and several pages, as a long report does.\n\n"
         ));
     }
+    md
+}
+
+/// Markdown that pushes every block across page ends: a long table, a long
+/// code block, a long quote, deep lists and a table too wide for the page.
+fn stress_markdown() -> String {
+    let mut md = String::from("# Nozzle schedule\n\n| Mark | Service | Size | Rating | Facing | Projection (mm) | Remark |\n|---|---|--:|---|---|--:|---|\n");
+    for i in 0..70 {
+        md.push_str(&format!(
+            "| N{i} | {} | DN {} | Class 300 | RF | {} | {} |\n",
+            if i % 3 == 0 { "Inlet from the upstream separator" } else { "Drain" },
+            50 + 5 * i,
+            150 + i,
+            if i % 7 == 0 { "reinforcing pad per UG-37, see the separate calculation" } else { "" }
+        ));
+    }
+    md.push_str("\n## Listing\n\n```\n");
+    for i in 0..80 {
+        md.push_str(&format!("step {i:3}: t_req = P * R / (S * E - 0.6 * P)   # {}\n", "x".repeat(i % 90)));
+    }
+    md.push_str("```\n\n");
+    for _ in 0..3 {
+        md.push_str("> A long remark of the checker that runs on and on, quoted in full so that the bar beside it must continue on the next page. A long remark of the checker that runs on.\n>\n");
+    }
+    md.push('\n');
+    for i in 0..6 {
+        md.push_str(&format!("{}- level {i} item with some text\n", "  ".repeat(i)));
+    }
+    md.push_str("\n| a | b | c | d | e | f | g | h | i | j |\n|---|---|---|---|---|---|---|---|---|---|\n");
+    md.push_str(&format!("| {} | 1 | 2 | 3 | 4 | 5 | 6 | 7 | 8 | 9 |\n", "y".repeat(300)));
     md
 }
 
@@ -164,16 +234,20 @@ fn text_of_headings_tables_and_symbols_is_extractable() {
         std::fs::write(&path, &pdf).expect("sample written");
         let letter = markdown_to_pdf(&sample_markdown(), &figures, &options(Paper::Letter)).expect("renders on Letter");
         std::fs::write(format!("{path}.letter.pdf"), letter).expect("sample written");
+        std::fs::write(format!("{path}.stress.pdf"), render(&stress_markdown())).expect("sample written");
+        // Timing of a ten-page package (the sample with its text doubled).
+        let long = format!("{}\n\n{}", sample_markdown(), sample_markdown());
+        let reference = markdown_to_pdf(&long, &figures, &options(Paper::A4)).expect("renders");
         let start = std::time::Instant::now();
         let runs = 20;
         for _ in 0..runs {
-            let again = markdown_to_pdf(&sample_markdown(), &figures, &options(Paper::A4)).expect("renders");
-            assert_eq!(again, pdf);
+            let again = markdown_to_pdf(&long, &figures, &options(Paper::A4)).expect("renders");
+            assert_eq!(again, reference);
         }
         eprintln!(
             "{} pages, {} bytes, {:.2} ms per call",
-            pages.len(),
-            pdf.len(),
+            page_texts(&reference).len(),
+            reference.len(),
             start.elapsed().as_secs_f64() * 1000.0 / f64::from(runs)
         );
     }
@@ -359,9 +433,10 @@ fn hostile_markdown_renders_without_panicking() {
         vec!["---"; 30].join("|"),
         (0..30).map(|_| long_word.as_str()).collect::<Vec<_>>().join("|"),
     );
-    let deep_list: String = (0..40).map(|i| format!("{}- level {i}\n", "  ".repeat(i))).collect();
-    let deep_quote = format!("{} deep\n", ">".repeat(60));
+    let deep_list: String = (0..300).map(|i| format!("{}- level {i}\n", "  ".repeat(i))).collect();
+    let deep_quote = format!("{} deep\n", ">".repeat(5000));
     let tall_cell = format!("| a | b |\n|---|---|\n| {} | x |\n", "word ".repeat(8000));
+    let tall_head = format!("| {} | b |\n|---|---|\n| 1 | x |\n| 2 | y |\n", "head ".repeat(4000));
     let inputs = [
         String::new(),
         "   \n\n\n".to_string(),
@@ -374,6 +449,7 @@ fn hostile_markdown_renders_without_panicking() {
         deep_list,
         deep_quote,
         tall_cell,
+        tall_head,
         "| ![in a cell](nothing) | b |\n|---|---|\n| 1 | 2 |\n".to_string(),
         "# ![in a heading](nothing)\n".to_string(),
         "\u{0}\u{7}\u{1b}[31m\u{202e}\u{10ffff}\u{fffe}\t\r\n".to_string(),

@@ -107,6 +107,13 @@ fn is_page_break(html: &str) -> bool {
     inner.trim().eq_ignore_ascii_case("page-break")
 }
 
+/// Deepest nesting of quotes, lists and list items that is kept. Deeper
+/// containers are merged into the one at this depth: each level indents the
+/// text, so beyond this there is no room left to show it, and a bounded tree
+/// also keeps the recursive layout (and the dropping of the tree) well within
+/// the stack whatever the input.
+const MAX_DEPTH: usize = 24;
+
 /// What the inline text being collected will become.
 enum InlineKind {
     Paragraph,
@@ -140,6 +147,9 @@ struct Builder {
     in_head: bool,
     bold: usize,
     italic: usize,
+    /// One entry per open quote, list or item event: whether it was merged
+    /// into its parent (beyond [`MAX_DEPTH`]) instead of opening a container.
+    merged: Vec<bool>,
 }
 
 impl Builder {
@@ -156,6 +166,7 @@ impl Builder {
             in_head: false,
             bold: 0,
             italic: 0,
+            merged: Vec::new(),
         }
     }
 
@@ -212,6 +223,14 @@ impl Builder {
         }
     }
 
+    /// Records the start of a quote or list; returns whether it opens a
+    /// container of its own (false when it is merged into its parent).
+    fn open_container(&mut self) -> bool {
+        let open = self.stack.len() <= MAX_DEPTH;
+        self.merged.push(!open);
+        open
+    }
+
     fn start(&mut self, tag: Tag<'_>) {
         if self.image.is_some() {
             if matches!(tag, Tag::Image { .. }) {
@@ -241,7 +260,9 @@ impl Builder {
             }
             Tag::BlockQuote(_) => {
                 self.close_implicit();
-                self.stack.push(Container::Quote(Vec::new()));
+                if self.open_container() {
+                    self.stack.push(Container::Quote(Vec::new()));
+                }
             }
             Tag::CodeBlock(_) => {
                 self.close_implicit();
@@ -253,9 +274,21 @@ impl Builder {
             }
             Tag::List(start) => {
                 self.close_implicit();
+                if !self.open_container() {
+                    return;
+                }
                 self.stack.push(Container::List { start, loose: false, items: Vec::new() });
             }
-            Tag::Item => self.stack.push(Container::Item(Vec::new())),
+            Tag::Item => {
+                // An item of a merged list is merged too; an item of a kept
+                // list is always kept, or the list would lose its items.
+                if self.merged.last() == Some(&true) {
+                    self.merged.push(true);
+                } else {
+                    self.merged.push(false);
+                    self.stack.push(Container::Item(Vec::new()));
+                }
+            }
             Tag::Table(aligns) => {
                 self.close_implicit();
                 let aligns = aligns
@@ -314,6 +347,9 @@ impl Builder {
             TagEnd::TableCell => self.finish_inline(),
             TagEnd::BlockQuote(_) => {
                 self.close_implicit();
+                if self.merged.pop().unwrap_or(false) {
+                    return;
+                }
                 if let Some(Container::Quote(blocks)) = self.stack.last() {
                     let blocks = blocks.clone();
                     self.stack.pop();
@@ -341,6 +377,9 @@ impl Builder {
             }
             TagEnd::Item => {
                 self.close_implicit();
+                if self.merged.pop().unwrap_or(false) {
+                    return;
+                }
                 if let Some(Container::Item(_)) = self.stack.last() {
                     if let Some(Container::Item(blocks)) = self.stack.pop() {
                         if let Some(Container::List { items, .. }) = self.stack.last_mut() {
@@ -353,6 +392,9 @@ impl Builder {
             }
             TagEnd::List(_) => {
                 self.close_implicit();
+                if self.merged.pop().unwrap_or(false) {
+                    return;
+                }
                 if let Some(Container::List { .. }) = self.stack.last() {
                     if let Some(Container::List { start, loose, items }) = self.stack.pop() {
                         self.push_block(Block::List { start, tight: !loose, items });
@@ -496,6 +538,26 @@ mod tests {
         assert_eq!(blocks[3], Block::PageBreak);
         assert!(matches!(&blocks[4], Block::Paragraph(s) if plain(s) == "End"));
         assert_eq!(blocks.len(), 5);
+    }
+
+    fn depth(block: &Block) -> usize {
+        match block {
+            Block::Quote(b) => 1 + b.iter().map(depth).max().unwrap_or(0),
+            Block::List { items, .. } => 2 + items.iter().flatten().map(depth).max().unwrap_or(0),
+            _ => 0,
+        }
+    }
+
+    #[test]
+    fn very_deep_nesting_is_merged_at_a_bounded_depth() {
+        let quotes = format!("{} deep\n", ">".repeat(5000));
+        let blocks = parse(&quotes);
+        assert!(depth(&blocks[0]) <= MAX_DEPTH, "{}", depth(&blocks[0]));
+        let lists: String = (0..200).map(|i| format!("{}- level {i}\n", "  ".repeat(i))).collect();
+        let blocks = parse(&lists);
+        assert!(depth(&blocks[0]) <= MAX_DEPTH + 1, "{}", depth(&blocks[0]));
+        // Nothing is lost: the innermost text is still there.
+        assert!(format!("{blocks:?}").contains("level 199"));
     }
 
     #[test]

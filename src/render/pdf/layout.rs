@@ -332,8 +332,16 @@ impl<'a> Layouter<'a> {
         for (i, block) in blocks.iter().enumerate() {
             if i > 0 {
                 let prev = &blocks[i - 1];
-                let gap =
-                    if matches!(prev, Block::Heading { .. }) { 4.0 } else { gap_after(prev).max(gap_before(block)) };
+                let gap = if matches!(prev, Block::Heading { .. }) {
+                    // Text sits close under its heading; a sub-heading right
+                    // under a heading keeps some of its own space.
+                    match block {
+                        Block::Heading { .. } => 0.6 * gap_before(block),
+                        _ => 4.0,
+                    }
+                } else {
+                    gap_after(prev).max(gap_before(block))
+                };
                 self.space(gap);
             }
             self.block(block, &blocks[i + 1..], x, width)?;

@@ -62,15 +62,60 @@ fn column_widths(min: &[f32], max: &[f32], avail: f32) -> Vec<f32> {
         return max.iter().map(|m| m + extra * m / sum_max).collect();
     }
     if sum_min <= avail {
-        let share = if sum_max > sum_min { (avail - sum_min) / (sum_max - sum_min) } else { 0.0 };
-        return min.iter().zip(max).map(|(lo, hi)| lo + (hi - lo) * share).collect();
+        // Start from the narrowest widths. Columns that need less than an
+        // equal share of the remaining room to avoid wrapping get all they
+        // need first (a "Class 300" or "DN 100" must not wrap because a
+        // column of remarks is long); what is left goes to the long columns
+        // in proportion to what they still lack.
+        let mut w = min.to_vec();
+        let mut remaining = avail - sum_min;
+        loop {
+            let open: Vec<usize> = (0..w.len()).filter(|&c| max[c] - w[c] > 1e-3).collect();
+            if open.is_empty() || remaining <= 1e-3 {
+                break;
+            }
+            let fair = remaining / open.len() as f32;
+            let small: Vec<usize> = open.iter().copied().filter(|&c| max[c] - w[c] <= fair).collect();
+            if small.is_empty() {
+                let lack: f32 = open.iter().map(|&c| max[c] - w[c]).sum();
+                for &c in &open {
+                    w[c] += remaining * (max[c] - w[c]) / lack;
+                }
+                break;
+            }
+            for c in small {
+                remaining -= max[c] - w[c];
+                w[c] = max[c];
+            }
+        }
+        return w;
     }
-    // Even the longest words do not fit: scale them down; the words will then
-    // be broken between characters.
-    if sum_min <= 0.0 {
-        return vec![avail / n; min.len()];
+    // Even the longest words do not fit. Columns whose longest word is within
+    // an equal share keep it; only the columns with overlong words are
+    // narrowed (in proportion to those words), and their words will then be
+    // broken between characters.
+    let mut w = min.to_vec();
+    let mut fixed = vec![false; min.len()];
+    loop {
+        let rest = avail - (0..w.len()).filter(|&c| fixed[c]).map(|c| w[c]).sum::<f32>();
+        let open: Vec<usize> = (0..w.len()).filter(|&c| !fixed[c]).collect();
+        if open.is_empty() {
+            break;
+        }
+        let fair = rest / open.len() as f32;
+        let small: Vec<usize> = open.iter().copied().filter(|&c| min[c] <= fair).collect();
+        if small.is_empty() {
+            let total: f32 = open.iter().map(|&c| min[c]).sum();
+            for &c in &open {
+                w[c] = if total > 0.0 { rest.max(0.0) * min[c] / total } else { rest.max(0.0) / open.len() as f32 };
+            }
+            break;
+        }
+        for c in small {
+            fixed[c] = true;
+        }
     }
-    min.iter().map(|m| m * avail / sum_min).collect()
+    w
 }
 
 impl Layouter<'_> {
@@ -141,7 +186,10 @@ impl Layouter<'_> {
         let lines = m.head.cells.iter().map(Vec::len).max().unwrap_or(0);
         self.draw_row_lines(m, &m.head, x, 0, lines);
         self.y += m.head.height;
-        self.push(Item::rule((x, self.y), (x + width, self.y), HEAD_RULE, 0.0));
+        // A table without rows closes with the outer rule alone.
+        if !m.rows.is_empty() {
+            self.push(Item::rule((x, self.y), (x + width, self.y), HEAD_RULE, 0.0));
+        }
     }
 
     /// Closes the table part on this page and repeats the head on the next.
@@ -231,9 +279,18 @@ mod tests {
         let w = column_widths(&[10.0, 20.0], &[50.0, 100.0], 90.0);
         assert!((w.iter().sum::<f32>() - 90.0).abs() < 1e-3);
         assert!(w[0] >= 10.0 && w[0] <= 50.0 && w[1] >= 20.0 && w[1] <= 100.0);
+        // A short column gets its natural width before long ones share the rest.
+        let w = column_widths(&[20.0, 30.0, 30.0], &[40.0, 300.0, 200.0], 200.0);
+        assert!((w[0] - 40.0).abs() < 1e-3, "{w:?}");
+        assert!((w.iter().sum::<f32>() - 200.0).abs() < 1e-3);
+        assert!(w[1] > w[2]);
         // Not even the minimum fits: scaled down to the measure.
         let w = column_widths(&[100.0, 100.0], &[200.0, 200.0], 100.0);
         assert!((w[0] - 50.0).abs() < 1e-4);
+        // Only the column with the overlong word is narrowed.
+        let w = column_widths(&[1000.0, 10.0, 10.0], &[1000.0, 10.0, 10.0], 100.0);
+        assert_eq!(&w[1..], &[10.0, 10.0]);
+        assert!((w[0] - 80.0).abs() < 1e-3, "{w:?}");
         // Empty columns still get a share.
         let w = column_widths(&[0.0, 0.0], &[0.0, 0.0], 100.0);
         assert_eq!(w, vec![50.0, 50.0]);

@@ -58,11 +58,14 @@ impl TextLine {
         self.width += w;
     }
 
-    /// Appends a word space in the style of the last fragment.
-    fn push_space(&mut self, faces: &[FaceMetrics]) {
-        if let Some(last) = self.frags.last() {
-            let (face, size) = (last.face, last.size);
-            self.push(faces, face, size, " ");
+    /// The face and size a word space before `next` is set in: the style of
+    /// the text around it, never the monospaced face when the other side is
+    /// running text (a code-wide space after inline code looks like a gap).
+    fn space_style(&self, next: Option<&Piece>) -> Option<(Face, f32)> {
+        let last = self.frags.last()?;
+        match next {
+            Some(n) if last.face == Face::Mono && n.face != Face::Mono => Some((n.face, n.size)),
+            _ => Some((last.face, last.size)),
         }
     }
 
@@ -158,15 +161,12 @@ pub fn wrap(faces: &[FaceMetrics], spans: &[Span], base: BaseStyle, width: f32) 
         if word.break_before {
             lines.push(std::mem::take(&mut cur));
         }
-        let space = if !cur.is_empty() && word.space_before {
-            cur.frags.last().map(|f| metrics(faces, f.face).advance_em(' ') * f.size).unwrap_or(0.0)
-        } else {
-            0.0
-        };
+        let space_style = if word.space_before { cur.space_style(word.pieces.first()) } else { None };
+        let space = space_style.map_or(0.0, |(f, size)| metrics(faces, f).advance_em(' ') * size);
         if !cur.is_empty() && cur.width + space + word.width > width + slack {
             lines.push(std::mem::take(&mut cur));
-        } else if !cur.is_empty() && word.space_before {
-            cur.push_space(faces);
+        } else if let Some((face, size)) = space_style {
+            cur.push(faces, face, size, " ");
         }
         if word.width <= width + slack {
             for p in &word.pieces {

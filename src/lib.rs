@@ -9,6 +9,10 @@
 //! | validated design | [`model::Design`] | [`model`] |
 //! | rules of a design code | [`calc::Calculation`] | [`rules`], [`calc`] |
 //! | figures | [`drawing::Drawing`] | [`drawing`] |
+//!
+//! Beside the stages: [`materials`] (library files and their stress tables,
+//! read through [`pipeline::SourceLoader`]), [`joints`] (Table UW-12) and
+//! [`stock`] (commercial plate and pipe thicknesses).
 
 pub mod calc;
 pub mod case;
@@ -18,9 +22,12 @@ pub mod diag;
 pub mod drawing;
 pub mod expr;
 pub mod fsio;
+pub mod joints;
+pub mod materials;
 pub mod model;
 pub mod package;
 pub mod pipeline;
 pub mod results;
 pub mod rules;
+pub mod stock;
 pub mod units;

@@ -163,6 +163,31 @@ impl Sheet {
         q
     }
 
+    /// Records a value taken from a table or decided by a rule rather than
+    /// computed by a formula (a Table UW-12 look-up, the choice of a
+    /// commercial thickness), with the clause and the reasoning in `formula`,
+    /// and binds it under `symbol`.
+    pub fn record(
+        &mut self,
+        symbol: &str,
+        description: &str,
+        clause: &str,
+        formula: &str,
+        q: Quantity,
+    ) -> Quantity {
+        self.env.insert(symbol.to_string(), q);
+        self.steps.push(Step {
+            symbol: expr::display_symbol(symbol),
+            description: description.to_string(),
+            clause: clause.to_string(),
+            formula_id: None,
+            formula: formula.to_string(),
+            substituted: String::new(),
+            quantity: q,
+        });
+        q
+    }
+
     /// Sets a symbol without recording a step (for a value already shown
     /// under another name on the same sheet).
     pub fn bind(&mut self, symbol: &str, q: Quantity) {

@@ -10,12 +10,15 @@
 pub mod cone;
 pub mod formulas;
 pub mod heads;
+pub mod mass;
+pub mod selection;
 pub mod shells;
+pub mod stress;
 pub mod vessel;
 
 use crate::calc::{CalcError, Formula, Sheet};
 use crate::model::{Component, ComponentKind, Design, Diameter};
-use crate::rules::{Calculation, ComponentResult, RuleSet};
+use crate::rules::{Calculation, ComponentResult, OrderItem, RuleSet};
 use crate::units::{Kind, Quantity, UnitSystem, INCH, STANDARD_GRAVITY};
 use formulas as f;
 
@@ -153,19 +156,28 @@ pub fn evaluate_component(design: &Design, c: &Component) -> Result<ComponentRes
     )?;
 
     // Material, joint and allowances.
-    s.input(
-        "S",
-        &format!(
-            "allowable stress of {} at design temperature",
-            material.name
-        ),
-        material.allowable_stress,
-    );
-    s.input(
-        "E",
-        "joint efficiency",
-        Quantity::new(c.joint_efficiency, Kind::Dimensionless),
-    );
+    stress::allowable(&mut s, material, Condition::HotCorroded, "S")?;
+    let e = Quantity::new(c.joint_efficiency, Kind::Dimensionless);
+    match &c.joint {
+        None => {
+            s.input("E", "joint efficiency", e);
+        }
+        Some(j) => {
+            s.record(
+                "E",
+                &format!("joint efficiency looked up for {}", j.words()),
+                &j.clause(),
+                &format!(
+                    "E = {} (Table UW-12 as held by Knuckle, from memory of the code)",
+                    crate::expr::show_number(c.joint_efficiency)
+                ),
+                e,
+            );
+            if let Some(limit) = j.limitation() {
+                limits.push(format!("{}: {limit} Knuckle does not check this.", c.id));
+            }
+        }
+    }
     if matches!(c.kind, ComponentKind::Cylinder) {
         s.input(
             "E_c",
@@ -239,31 +251,17 @@ pub fn evaluate_component(design: &Design, c: &Component) -> Result<ComponentRes
     s.bind("t_r", required);
     let minimum = s.step(&f::MINIMUM_THICKNESS, "minimum thickness: the larger of the pressure thickness and the floor, plus corrosion and thinning allowances")?;
 
-    // Nominal thickness and its adequacy.
-    let nominal = match c.nominal_thickness {
-        Some(t) => {
-            s.input("t_n", "nominal thickness", t);
-            s.check_at_least(
-                "nominal thickness covers the minimum thickness",
-                "UG-16, UG-25, UG-27/UG-32",
-                minimum,
-                t,
-                "the nominal thickness is less than the minimum required; choose a thicker plate",
-            );
-            t
-        }
-        None => s.input(
-            "t_n",
-            "no nominal thickness given: the minimum thickness is used",
-            minimum,
-        ),
-    };
+    // Nominal thickness (given, or selected from the commercial list) and its adequacy.
+    let chosen = selection::nominal(&mut s, design, c, minimum)?;
+    let nominal = chosen.thickness;
 
     // MAWP hot and corroded, after the shape limits that use the same thickness.
-    s.step(
-        &f::AVAILABLE_THICKNESS,
-        "thickness available, hot and corroded",
-    )?;
+    let available = if chosen.deducts {
+        &f::AVAILABLE_THICKNESS_MILL
+    } else {
+        &f::AVAILABLE_THICKNESS
+    };
+    s.step(available, "thickness available, hot and corroded")?;
     heads::shape_limits(&mut s, c, nominal)?;
     let mawp = component_mawp(&mut s, c, Condition::HotCorroded)?;
     s.check_at_least(
@@ -277,16 +275,28 @@ pub fn evaluate_component(design: &Design, c: &Component) -> Result<ComponentRes
 
     // MAP new and cold: no corrosion allowance, allowable stress at test temperature.
     s.input("c", "corrosion allowance, new condition", len(0.0));
-    s.input(
-        "S",
-        &format!("allowable stress of {} at test temperature", material.name),
-        material.test_allowable_stress,
-    );
+    stress::allowable(&mut s, material, Condition::NewCold, "S")?;
     bind_diameter(&mut s, c, Condition::NewCold)?;
-    s.step(&f::NEW_THICKNESS, "thickness available, new and cold")?;
+    let new = if chosen.deducts {
+        &f::NEW_THICKNESS_MILL
+    } else {
+        &f::NEW_THICKNESS
+    };
+    s.step(new, "thickness available, new and cold")?;
     let map = component_mawp(&mut s, c, Condition::NewCold)?;
 
-    Ok(finish(
+    // Mass, volume and what to order, at the nominal thickness.
+    // `t_n` is still bound to the nominal (or selected) thickness.
+    let mv = if c.kind.is_formed_head() {
+        // filled from crate::geometry when merged: pass the head's metal and
+        // inside volumes here instead of `None`.
+        mass::head(&mut s, material, None)?
+    } else {
+        mass::shell(&mut s, c, material)?
+    };
+    let order = order_item(c, material, nominal, chosen.selected.as_ref(), mv);
+
+    let mut result = finish(
         c,
         s,
         Some(required),
@@ -297,7 +307,47 @@ pub fn evaluate_component(design: &Design, c: &Component) -> Result<ComponentRes
         Some(top),
         Some(map),
         limits,
-    ))
+    );
+    result.selected_thickness = chosen.selected.map(|k| k.thickness);
+    result.mass = mv.mass;
+    result.volume = mv.volume;
+    result.order = Some(order);
+    Ok(result)
+}
+
+/// The order-list line of a component: what to buy and, for a rolled
+/// cylinder, the blank (width = length, length = developed length).
+fn order_item(
+    c: &Component,
+    material: &crate::model::Material,
+    nominal: Quantity,
+    selected: Option<&crate::stock::Candidate>,
+    mv: mass::MassVolume,
+) -> OrderItem {
+    let pipe = c.pipe_size.as_ref().filter(|_| c.is_pipe());
+    let ordered_as = match (selected, pipe) {
+        (Some(k), _) => k.label.clone(),
+        (None, Some(p)) => format!("NPS {} pipe, wall as given", p.nps),
+        (None, None) => format!("{} as given", c.product_form.name()),
+    };
+    let cylinder = matches!(c.kind, ComponentKind::Cylinder);
+    let (width, length) = match (cylinder, c.is_pipe()) {
+        (true, false) => (
+            c.length.filter(|_| mv.developed_length.is_some()),
+            mv.developed_length,
+        ),
+        (true, true) => (None, c.length),
+        _ => (None, None),
+    };
+    OrderItem {
+        component: c.id.clone(),
+        material: material.name.clone(),
+        product_form: c.product_form.name().to_string(),
+        thickness: nominal,
+        ordered_as,
+        blank_width: width,
+        blank_length: length,
+    }
 }
 
 /// The MAWP of a component for the thickness bound to `t`.
@@ -361,6 +411,10 @@ fn finish(
         map,
         limits,
         acceptable,
+        selected_thickness: None,
+        mass: None,
+        volume: None,
+        order: None,
     }
 }
 

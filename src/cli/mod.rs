@@ -5,6 +5,7 @@
 //! (or a verification failed), 2 an input or usage error (nothing written).
 
 mod check;
+mod materials;
 mod starter;
 
 use clap::{Parser, Subcommand};
@@ -36,6 +37,8 @@ enum Command {
     },
     /// Print the JSON Schema of the case file.
     Schema,
+    /// List the materials of a library, or show one with its stress table.
+    Materials(materials::MaterialsArgs),
 }
 
 /// Runs the command line and returns the exit status.
@@ -51,6 +54,7 @@ pub fn run(args: Vec<OsString>) -> i32 {
     match cli.command {
         Command::Check(a) => check::run(&a),
         Command::New { path } => starter::write_new(&path),
+        Command::Materials(a) => materials::run(&a),
         Command::Schema => {
             println!("{}", starter::schema_text());
             EXIT_OK

@@ -84,11 +84,24 @@ impl SourceLoader for MemoryLoader {
     }
 }
 
+/// A loader that reads nothing: for callers whose cases name no library.
+#[derive(Debug, Clone, Copy, Default)]
+pub struct NoFiles;
+
+impl SourceLoader for NoFiles {
+    fn load(&self, _path: &Path) -> Result<String, String> {
+        Err(
+            "this caller reads no library files (use `pipeline::evaluate_with` with a loader)"
+                .into(),
+        )
+    }
+}
+
 /// Parses, validates and evaluates case-file text that names no library
-/// file (a library named is reported as not loaded). `file` names the file
-/// in messages.
+/// file (a library named is reported as an input error). `file` names the
+/// file in messages.
 pub fn evaluate(file: &str, source: &str) -> Result<Evaluated, InputErrors> {
-    evaluate_with(file, source, &MemoryLoader::default())
+    evaluate_with(file, source, &NoFiles)
 }
 
 /// Parses, validates and evaluates case-file text, reading the libraries it

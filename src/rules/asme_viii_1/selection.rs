@@ -93,7 +93,7 @@ pub fn delivered(s: &mut Sheet, c: &Component) -> Result<Option<Quantity>, CalcE
                     "t_u",
                     "under-tolerance deducted: none, the plate may be used at the full design pressure for the thickness ordered",
                     "UG-16(c)",
-                    &format!("t_u = 0 because u = {} ≤ u_lim = {}", units.display(u_q), units.display(lim)),
+                    &format!("tu = 0 because u = {} ≤ ulim = {}", units.display(u_q), units.display(lim)),
                     Quantity::new(0.0, Kind::Length),
                 );
                 return Ok(None);
@@ -103,7 +103,7 @@ pub fn delivered(s: &mut Sheet, c: &Component) -> Result<Option<Quantity>, CalcE
                 "under-tolerance deducted: all of it, since it exceeds the UG-16(c) allowance",
                 "UG-16(c)",
                 &format!(
-                    "t_u = u because u = {} > u_lim = {}",
+                    "tu = u because u = {} > ulim = {}",
                     units.display(u_q),
                     units.display(lim)
                 ),
@@ -232,7 +232,7 @@ pub fn nominal(
             ),
             "UG-16",
             &format!(
-                "t_d = {} < t_m = {}",
+                "td = {} < tm = {}",
                 units.display(td),
                 units.display_up(minimum)
             ),

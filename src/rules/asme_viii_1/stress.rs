@@ -50,38 +50,39 @@ pub fn allowable(
             b.lower.stress,
         ));
     }
-    let row = |which: &str, r: crate::materials::StressRow| {
+    let row = |which: &str, what: &str, r: crate::materials::StressRow| {
         format!(
-            "{which} bracketing row ({}, {}) of the {whence}",
+            "{which} bracketing row ({}, {}) of the `{}` table: {what}",
             table.show_temperature(r.temperature),
-            table.show_stress(r.stress)
+            table.show_stress(r.stress),
+            lib.material.key
         )
     };
     s.input(
         "T_1",
-        &row("temperature of the lower", b.lower),
+        &row("lower", "temperature", b.lower),
         b.lower.temperature,
     );
     s.input(
         "S_1",
-        &row("allowable stress of the lower", b.lower),
+        &row("lower", "allowable stress", b.lower),
         b.lower.stress,
     );
     s.input(
         "T_2",
-        &row("temperature of the upper", b.upper),
+        &row("upper", "temperature", b.upper),
         b.upper.temperature,
     );
     s.input(
         "S_2",
-        &row("allowable stress of the upper", b.upper),
+        &row("upper", "allowable stress", b.upper),
         b.upper.stress,
     );
     s.step_as(
         &STRESS_INTERPOLATION,
         symbol,
         &format!(
-            "allowable stress of {} at {at}, linear interpolation between the bracketing rows",
+            "allowable stress of {} at {at}, linear interpolation between the bracketing rows of the {whence}",
             m.name
         ),
     )

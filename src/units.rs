@@ -56,6 +56,9 @@ impl Dim {
         }
     }
     /// Product of two dimensions.
+    // A plain method rather than the operator trait: dimensions combine by
+    // adding exponents, which the `Mul` trait would hide.
+    #[allow(clippy::should_implement_trait)]
     pub fn mul(self, o: Dim) -> Dim {
         Dim::new(
             self.mass + o.mass,
@@ -65,6 +68,9 @@ impl Dim {
         )
     }
     /// Quotient of two dimensions.
+    // A plain method rather than the operator trait: dimensions combine by
+    // adding exponents, which the `Div` trait would hide.
+    #[allow(clippy::should_implement_trait)]
     pub fn div(self, o: Dim) -> Dim {
         Dim::new(
             self.mass - o.mass,

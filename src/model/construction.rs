@@ -533,10 +533,7 @@ pub(super) fn read_pipe_size(
         );
         return None;
     }
-    let Some(d) = diameter else {
-        return None;
-    };
-    let Diameter::Outside(od) = d else {
+    let Diameter::Outside(od) = diameter? else {
         r.err(
             Diagnostic::new(
                 k("inside_diameter"),

@@ -369,7 +369,8 @@ fn component_mawp(
         } => heads::torispherical_mawp(s, *crown_radius, *knuckle_radius, condition)?,
         ComponentKind::ConicalSection { .. } => cone::mawp(s, c, condition)?,
     };
-    if !(q.value > 0.0) {
+    // NaN must fail too, so the test is written to be true for it.
+    if q.value.is_nan() || q.value <= 0.0 {
         return Err(CalcError::OutOfRange {
             component: c.id.clone(),
             message: format!(

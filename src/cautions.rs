@@ -24,15 +24,8 @@ pub fn all(design: &Design, calc: &Calculation) -> Vec<String> {
         out.extend(c.limits.iter().cloned());
     }
     for (id, k) in calc.failed_checks() {
-        let kind = if k.applicability {
-            "Limit of applicability not met"
-        } else {
-            "Check failed"
-        };
-        out.push(format!(
-            "{kind} for `{id}`: {} ({}): {}.",
-            k.name, k.clause, k.note
-        ));
+        let kind = if k.applicability { "Limit of applicability not met" } else { "Check failed" };
+        out.push(format!("{kind} for `{id}`: {} ({}): {}.", k.name, k.clause, k.note));
     }
     out
 }
@@ -54,18 +47,10 @@ pub fn data(design: &Design, calc: &Calculation) -> Vec<String> {
     for (file, caution, keys) in libraries {
         out.push(format!(
             "Materials library `{file}` (used for {}): {caution}.",
-            keys.iter()
-                .map(|k| format!("`{k}`"))
-                .collect::<Vec<_>>()
-                .join(", ")
+            keys.iter().map(|k| format!("`{k}`")).collect::<Vec<_>>().join(", ")
         ));
     }
-    let described: Vec<&str> = design
-        .components
-        .iter()
-        .filter(|c| c.joint.is_some())
-        .map(|c| c.id.as_str())
-        .collect();
+    let described: Vec<&str> = design.components.iter().filter(|c| c.joint.is_some()).map(|c| c.id.as_str()).collect();
     if !described.is_empty() {
         out.push(format!(
             "Joint efficiencies of {} were looked up in Table UW-12 as Knuckle holds it, written from memory of the code; verify them against the edition in force.",
@@ -77,10 +62,7 @@ pub fn data(design: &Design, calc: &Calculation) -> Vec<String> {
         .iter()
         .filter(|c| {
             c.selected_thickness.is_some()
-                && design
-                    .components
-                    .iter()
-                    .any(|d| d.id == c.id && d.is_pipe() && d.pipe_size.is_some())
+                && design.components.iter().any(|d| d.id == c.id && d.is_pipe() && d.pipe_size.is_some())
         })
         .map(|c| c.id.as_str())
         .collect();

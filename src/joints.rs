@@ -26,11 +26,8 @@ pub enum Radiography {
 
 impl Radiography {
     /// Every extent with its case-file name.
-    pub const ALL: [(&'static str, Radiography); 3] = [
-        ("full", Radiography::Full),
-        ("spot", Radiography::Spot),
-        ("none", Radiography::None),
-    ];
+    pub const ALL: [(&'static str, Radiography); 3] =
+        [("full", Radiography::Full), ("spot", Radiography::Spot), ("none", Radiography::None)];
 
     /// The extent with this case-file name.
     pub fn from_name(s: &str) -> Option<Radiography> {
@@ -152,14 +149,9 @@ impl Joint {
                 Radiography::Full | Radiography::Spot => 1.00,
                 Radiography::None => 0.85,
             }),
-            Joint::Welded {
-                joint_type,
-                radiography,
-            } => {
-                let row = UW12
-                    .iter()
-                    .find(|r| r.0 == joint_type)
-                    .ok_or(JointRefusal::UnknownType(joint_type as i64))?;
+            Joint::Welded { joint_type, radiography } => {
+                let row =
+                    UW12.iter().find(|r| r.0 == joint_type).ok_or(JointRefusal::UnknownType(joint_type as i64))?;
                 let col = match radiography {
                     Radiography::Full => 0,
                     Radiography::Spot => 1,
@@ -181,19 +173,11 @@ impl Joint {
     /// The description of the joint in words, for the step that records it.
     pub fn words(&self) -> String {
         match *self {
-            Joint::Seamless { radiography } => format!(
-                "seamless, joining welds with {} (UW-12(d))",
-                radiography.words()
-            ),
-            Joint::Welded {
-                joint_type,
-                radiography,
-            } => {
-                let what = UW12
-                    .iter()
-                    .find(|r| r.0 == joint_type)
-                    .map(|r| r.1)
-                    .unwrap_or("");
+            Joint::Seamless { radiography } => {
+                format!("seamless, joining welds with {} (UW-12(d))", radiography.words())
+            }
+            Joint::Welded { joint_type, radiography } => {
+                let what = UW12.iter().find(|r| r.0 == joint_type).map(|r| r.1).unwrap_or("");
                 format!("joint type {joint_type} ({what}), {}", radiography.words())
             }
         }
@@ -213,11 +197,9 @@ impl Joint {
     pub fn limitation(&self) -> Option<&'static str> {
         match *self {
             Joint::Seamless { .. } => None,
-            Joint::Welded { joint_type, .. } => UW12
-                .iter()
-                .find(|r| r.0 == joint_type)
-                .map(|r| r.3)
-                .filter(|s| !s.is_empty()),
+            Joint::Welded { joint_type, .. } => {
+                UW12.iter().find(|r| r.0 == joint_type).map(|r| r.3).filter(|s| !s.is_empty())
+            }
         }
     }
 }
@@ -227,11 +209,7 @@ mod tests {
     use super::*;
 
     fn e(joint_type: u8, r: Radiography) -> Result<f64, JointRefusal> {
-        Joint::Welded {
-            joint_type,
-            radiography: r,
-        }
-        .efficiency()
+        Joint::Welded { joint_type, radiography: r }.efficiency()
     }
 
     #[test]
@@ -252,10 +230,7 @@ mod tests {
         assert_eq!(e(6, None), Ok(0.45));
         for t in 3..=6 {
             for r in [Full, Spot] {
-                assert!(
-                    matches!(e(t, r), Err(JointRefusal::NotPermitted { .. })),
-                    "type {t} {r:?}"
-                );
+                assert!(matches!(e(t, r), Err(JointRefusal::NotPermitted { .. })), "type {t} {r:?}");
             }
         }
         assert_eq!(e(7, Full), Err(JointRefusal::UnknownType(7)));

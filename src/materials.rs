@@ -74,11 +74,8 @@ pub enum ProductForm {
 
 impl ProductForm {
     /// Every form with its file name.
-    pub const ALL: [(&'static str, ProductForm); 3] = [
-        ("plate", ProductForm::Plate),
-        ("pipe", ProductForm::Pipe),
-        ("forging", ProductForm::Forging),
-    ];
+    pub const ALL: [(&'static str, ProductForm); 3] =
+        [("plate", ProductForm::Plate), ("pipe", ProductForm::Pipe), ("forging", ProductForm::Forging)];
 
     /// The name used in files.
     pub fn name(self) -> &'static str {
@@ -96,11 +93,7 @@ impl ProductForm {
 
     /// The accepted names, for messages.
     pub fn names() -> String {
-        Self::ALL
-            .iter()
-            .map(|(n, _)| format!("\"{n}\""))
-            .collect::<Vec<_>>()
-            .join(", ")
+        Self::ALL.iter().map(|(n, _)| format!("\"{n}\"")).collect::<Vec<_>>().join(", ")
     }
 }
 
@@ -160,10 +153,7 @@ impl Bracket {
         let v = STRESS_INTERPOLATION
             .expr()?
             .eval(&env)
-            .map_err(|e| CalcError::Formula {
-                id: STRESS_INTERPOLATION.id,
-                message: e.0,
-            })?;
+            .map_err(|e| CalcError::Formula { id: STRESS_INTERPOLATION.id, message: e.0 })?;
         Ok(Quantity::new(v.value, Kind::Stress))
     }
 }
@@ -178,10 +168,7 @@ fn unit_scale(unit: &str, kind: Kind) -> Option<(f64, f64)> {
 impl StressTable {
     /// The lowest and highest tabulated temperatures.
     pub fn range(&self) -> Option<(Quantity, Quantity)> {
-        Some((
-            self.rows.first()?.temperature,
-            self.rows.last()?.temperature,
-        ))
+        Some((self.rows.first()?.temperature, self.rows.last()?.temperature))
     }
 
     /// The bracketing rows, or `None` when the temperature lies outside the
@@ -194,26 +181,11 @@ impl StressTable {
         if t.value < lo.value - eps || t.value > hi.value + eps {
             return None;
         }
-        if let Some(row) = self
-            .rows
-            .iter()
-            .find(|r| (r.temperature.value - t.value).abs() <= eps)
-        {
-            return Some(Bracket {
-                temperature: t,
-                lower: *row,
-                upper: *row,
-            });
+        if let Some(row) = self.rows.iter().find(|r| (r.temperature.value - t.value).abs() <= eps) {
+            return Some(Bracket { temperature: t, lower: *row, upper: *row });
         }
-        let i = self
-            .rows
-            .iter()
-            .position(|r| r.temperature.value > t.value)?;
-        Some(Bracket {
-            temperature: t,
-            lower: *self.rows.get(i.checked_sub(1)?)?,
-            upper: self.rows[i],
-        })
+        let i = self.rows.iter().position(|r| r.temperature.value > t.value)?;
+        Some(Bracket { temperature: t, lower: *self.rows.get(i.checked_sub(1)?)?, upper: self.rows[i] })
     }
 
     /// A temperature in the table's own unit (`650 degF`).
@@ -229,11 +201,7 @@ impl StressTable {
     /// The range in the table's own unit (`-20 degF to 800 degF`).
     pub fn range_text(&self) -> String {
         match self.range() {
-            Some((lo, hi)) => format!(
-                "{} to {}",
-                self.show_temperature(lo),
-                self.show_temperature(hi)
-            ),
+            Some((lo, hi)) => format!("{} to {}", self.show_temperature(lo), self.show_temperature(hi)),
             None => "no rows".to_string(),
         }
     }
@@ -330,12 +298,7 @@ struct RawStressTable {
 
 fn missing(errors: &mut Vec<Diagnostic>, key: String, span: Range<usize>, what: &str) {
     errors.push(
-        Diagnostic::new(
-            key.clone(),
-            Some(span),
-            format!("missing required key `{key}`"),
-        )
-        .expected(what.to_string()),
+        Diagnostic::new(key.clone(), Some(span), format!("missing required key `{key}`")).expected(what.to_string()),
     );
 }
 
@@ -348,24 +311,15 @@ fn library_quantity(
     example: &str,
 ) -> Option<Quantity> {
     let Some(v) = v else {
-        missing(
-            errors,
-            key,
-            table,
-            &format!("{}, e.g. \"{example}\"", kind.describe()),
-        );
+        missing(errors, key, table, &format!("{}, e.g. \"{example}\"", kind.describe()));
         return None;
     };
     match parse_quantity(v.get_ref(), kind) {
         Ok(q) if q.value > 0.0 => Some(q),
         Ok(_) => {
             errors.push(
-                Diagnostic::new(
-                    key.clone(),
-                    Some(v.span()),
-                    format!("`{key}` must be greater than zero"),
-                )
-                .expected(format!("{} greater than zero", kind.describe())),
+                Diagnostic::new(key.clone(), Some(v.span()), format!("`{key}` must be greater than zero"))
+                    .expected(format!("{} greater than zero", kind.describe())),
             );
             None
         }
@@ -409,37 +363,21 @@ pub fn parse_library(file: &str, source: &str) -> Result<Library, InputErrors> {
         let span = m.span();
         let m = m.get_ref();
         let k = |f: &str| format!("material.{key}.{f}");
-        let text = |errors: &mut Vec<Diagnostic>,
-                    f: &str,
-                    v: &Option<Spanned<String>>,
-                    what: &str| {
-            match v {
-                Some(s) if !s.get_ref().trim().is_empty() => Some(s.get_ref().trim().to_string()),
-                Some(s) => {
-                    errors.push(
-                        Diagnostic::new(k(f), Some(s.span()), format!("`{}` is empty", k(f)))
-                            .expected(what.to_string()),
-                    );
-                    None
-                }
-                None => {
-                    missing(errors, k(f), span.clone(), what);
-                    None
-                }
+        let text = |errors: &mut Vec<Diagnostic>, f: &str, v: &Option<Spanned<String>>, what: &str| match v {
+            Some(s) if !s.get_ref().trim().is_empty() => Some(s.get_ref().trim().to_string()),
+            Some(s) => {
+                errors.push(
+                    Diagnostic::new(k(f), Some(s.span()), format!("`{}` is empty", k(f))).expected(what.to_string()),
+                );
+                None
+            }
+            None => {
+                missing(errors, k(f), span.clone(), what);
+                None
             }
         };
-        let spec = text(
-            &mut errors,
-            "specification",
-            &m.specification,
-            "the specification, e.g. \"SA-516\"",
-        );
-        let grade = text(
-            &mut errors,
-            "grade",
-            &m.grade,
-            "the grade, type or class, e.g. \"Grade 70\"",
-        );
+        let spec = text(&mut errors, "specification", &m.specification, "the specification, e.g. \"SA-516\"");
+        let grade = text(&mut errors, "grade", &m.grade, "the grade, type or class, e.g. \"Grade 70\"");
         let form = match &m.product_form {
             Some(s) => match ProductForm::from_name(s.get_ref()) {
                 Some(f) => Some(f),
@@ -456,12 +394,7 @@ pub fn parse_library(file: &str, source: &str) -> Result<Library, InputErrors> {
                 }
             },
             None => {
-                missing(
-                    &mut errors,
-                    k("product_form"),
-                    span.clone(),
-                    &format!("one of: {}", ProductForm::names()),
-                );
+                missing(&mut errors, k("product_form"), span.clone(), &format!("one of: {}", ProductForm::names()));
                 None
             }
         };
@@ -481,23 +414,12 @@ pub fn parse_library(file: &str, source: &str) -> Result<Library, InputErrors> {
             Kind::Stress,
             "260 MPa",
         );
-        let density = library_quantity(
-            &mut errors,
-            k("density"),
-            &m.density,
-            span.clone(),
-            Kind::Density,
-            "7850 kg/m3",
-        );
+        let density =
+            library_quantity(&mut errors, k("density"), &m.density, span.clone(), Kind::Density, "7850 kg/m3");
         let table = match &m.allowable_stress {
             Some(t) => read_table(&mut errors, key, t),
             None => {
-                missing(
-                    &mut errors,
-                    k("allowable_stress"),
-                    span.clone(),
-                    "a [material.<key>.allowable_stress] table",
-                );
+                missing(&mut errors, k("allowable_stress"), span.clone(), "a [material.<key>.allowable_stress] table");
                 None
             }
         };
@@ -529,105 +451,64 @@ pub fn parse_library(file: &str, source: &str) -> Result<Library, InputErrors> {
     }
     if !errors.is_empty() {
         errors.sort_by_key(|d| d.span.as_ref().map(|s| s.start).unwrap_or(usize::MAX));
-        return Err(InputErrors {
-            file: file.to_string(),
-            source: source.to_string(),
-            errors,
-        });
+        return Err(InputErrors { file: file.to_string(), source: source.to_string(), errors });
     }
     let info = raw.library.as_ref();
     Ok(Library {
         file: file.to_string(),
         title: info.and_then(|i| i.title.clone()).unwrap_or_default(),
-        caution: info
-            .and_then(|i| i.caution.clone())
-            .filter(|c| !c.trim().is_empty()),
+        caution: info.and_then(|i| i.caution.clone()).filter(|c| !c.trim().is_empty()),
         materials,
     })
 }
 
-fn read_table(
-    errors: &mut Vec<Diagnostic>,
-    key: &str,
-    t: &Spanned<RawStressTable>,
-) -> Option<StressTable> {
+fn read_table(errors: &mut Vec<Diagnostic>, key: &str, t: &Spanned<RawStressTable>) -> Option<StressTable> {
     let span = t.span();
     let t = t.get_ref();
     let k = |f: &str| format!("material.{key}.allowable_stress.{f}");
     let before = errors.len();
-    let unit = |errors: &mut Vec<Diagnostic>,
-                f: &str,
-                v: &Option<Spanned<String>>,
-                kind: Kind,
-                example: &str| {
-        match v {
-            Some(u) => match unit_scale(u.get_ref(), kind) {
-                Some(scale) => Some((u.get_ref().clone(), scale)),
-                None => {
-                    errors.push(
-                        Diagnostic::new(
-                            k(f),
-                            Some(u.span()),
-                            format!(
-                                "`{}` is not a unit of {}",
-                                u.get_ref(),
-                                if kind == Kind::Temperature {
-                                    "temperature"
-                                } else {
-                                    "stress"
-                                }
-                            ),
-                        )
-                        .expected(kind.describe().to_string())
-                        .hint(format!("e.g. {f} = \"{example}\"")),
-                    );
-                    None
-                }
-            },
+    let unit = |errors: &mut Vec<Diagnostic>, f: &str, v: &Option<Spanned<String>>, kind: Kind, example: &str| match v {
+        Some(u) => match unit_scale(u.get_ref(), kind) {
+            Some(scale) => Some((u.get_ref().clone(), scale)),
             None => {
-                missing(
-                    errors,
-                    k(f),
-                    span.clone(),
-                    &format!("the unit of the column, e.g. \"{example}\""),
+                errors.push(
+                    Diagnostic::new(
+                        k(f),
+                        Some(u.span()),
+                        format!(
+                            "`{}` is not a unit of {}",
+                            u.get_ref(),
+                            if kind == Kind::Temperature { "temperature" } else { "stress" }
+                        ),
+                    )
+                    .expected(kind.describe().to_string())
+                    .hint(format!("e.g. {f} = \"{example}\"")),
                 );
                 None
             }
+        },
+        None => {
+            missing(errors, k(f), span.clone(), &format!("the unit of the column, e.g. \"{example}\""));
+            None
         }
     };
-    let tu = unit(
-        errors,
-        "temperature_unit",
-        &t.temperature_unit,
-        Kind::Temperature,
-        "degF",
-    );
+    let tu = unit(errors, "temperature_unit", &t.temperature_unit, Kind::Temperature, "degF");
     let su = unit(errors, "stress_unit", &t.stress_unit, Kind::Stress, "ksi");
     let source = match &t.source {
         Some(s) if !s.get_ref().trim().is_empty() => Some(s.get_ref().trim().to_string()),
         _ => {
             let s = t.source.as_ref().map(|s| s.span()).unwrap_or(span.clone());
             errors.push(
-                Diagnostic::new(
-                    k("source"),
-                    Some(s),
-                    "every allowable-stress table needs a `source` note",
-                )
-                .expected(
-                    "where the values come from, e.g. \"Section II, Part D, 2023, Table 1A\"",
-                ),
+                Diagnostic::new(k("source"), Some(s), "every allowable-stress table needs a `source` note")
+                    .expected("where the values come from, e.g. \"Section II, Part D, 2023, Table 1A\""),
             );
             None
         }
     };
     if t.rows.is_empty() {
         errors.push(
-            Diagnostic::new(
-                k("rows"),
-                Some(span.clone()),
-                "the allowable-stress table has no rows",
-            )
-            .expected("rows = [[temperature, stress], ...] with at least one row"),
+            Diagnostic::new(k("rows"), Some(span.clone()), "the allowable-stress table has no rows")
+                .expected("rows = [[temperature, stress], ...] with at least one row"),
         );
     }
     let mut rows = Vec::new();
@@ -637,12 +518,8 @@ fn read_table(
             let rk = format!("material.{key}.allowable_stress.rows[{i}]");
             let [temp, stress] = row.get_ref().as_slice() else {
                 errors.push(
-                    Diagnostic::new(
-                        rk,
-                        Some(row.span()),
-                        format!("row {} has {} numbers", i + 1, row.get_ref().len()),
-                    )
-                    .expected("exactly two numbers: [temperature, stress]"),
+                    Diagnostic::new(rk, Some(row.span()), format!("row {} has {} numbers", i + 1, row.get_ref().len()))
+                        .expected("exactly two numbers: [temperature, stress]"),
                 );
                 continue;
             };
@@ -651,10 +528,7 @@ fn read_table(
                     Diagnostic::new(
                         rk,
                         Some(row.span()),
-                        format!(
-                            "row {} must hold a finite temperature and a stress greater than zero",
-                            i + 1
-                        ),
+                        format!("row {} must hold a finite temperature and a stress greater than zero", i + 1),
                     )
                     .expected("[temperature, stress] with stress > 0"),
                 );
@@ -666,10 +540,7 @@ fn read_table(
                         Diagnostic::new(
                             rk,
                             Some(row.span()),
-                            format!(
-                                "row {} is not above the row before it in temperature",
-                                i + 1
-                            ),
+                            format!("row {} is not above the row before it in temperature", i + 1),
                         )
                         .expected("rows in strictly increasing temperature"),
                     );
@@ -686,12 +557,7 @@ fn read_table(
     if errors.len() > before {
         return None;
     }
-    Some(StressTable {
-        temperature_unit: tu?.0,
-        stress_unit: su?.0,
-        source: source?,
-        rows,
-    })
+    Some(StressTable { temperature_unit: tu?.0, stress_unit: su?.0, source: source?, rows })
 }
 
 #[cfg(test)]
@@ -729,15 +595,9 @@ mod tests {
 
     #[test]
     fn a_tabulated_temperature_needs_no_interpolation() {
-        let t = table(
-            "degF",
-            "ksi",
-            &[(100.0, 20.0), (200.0, 18.0), (300.0, 16.0)],
-        );
+        let t = table("degF", "ksi", &[(100.0, 20.0), (200.0, 18.0), (300.0, 16.0)]);
         // 200 °F is 93.333… °C exactly (conversion definition).
-        let b = t
-            .bracket(Quantity::new((200.0 - 32.0) * 5.0 / 9.0, Kind::Temperature))
-            .unwrap();
+        let b = t.bracket(Quantity::new((200.0 - 32.0) * 5.0 / 9.0, Kind::Temperature)).unwrap();
         assert!(b.exact());
         assert!((b.stress().unwrap().value - 18.0 * 6_894_757.293_168_361).abs() < 1e-3);
     }
@@ -755,17 +615,9 @@ mod tests {
     fn the_example_library_parses() {
         let lib = parse_library(EXAMPLE_LIBRARY_NAME, EXAMPLE_LIBRARY).unwrap();
         assert!(lib.materials.len() >= 6);
-        assert!(lib
-            .caution
-            .as_deref()
-            .unwrap_or("")
-            .contains("illustrative values from memory"));
+        assert!(lib.caution.as_deref().unwrap_or("").contains("illustrative values from memory"));
         for m in lib.materials.values() {
-            assert!(
-                m.table.source.contains("illustrative values from memory"),
-                "{}",
-                m.key
-            );
+            assert!(m.table.source.contains("illustrative values from memory"), "{}", m.key);
         }
     }
 

@@ -41,11 +41,7 @@ pub struct FsLoader {
 impl FsLoader {
     /// A loader for files named relative to the folder of `case_file`.
     pub fn beside(case_file: &Path) -> FsLoader {
-        let base = case_file
-            .parent()
-            .filter(|p| !p.as_os_str().is_empty())
-            .unwrap_or(Path::new("."))
-            .to_path_buf();
+        let base = case_file.parent().filter(|p| !p.as_os_str().is_empty()).unwrap_or(Path::new(".")).to_path_buf();
         FsLoader { base }
     }
 }
@@ -77,10 +73,7 @@ impl MemoryLoader {
 
 impl SourceLoader for MemoryLoader {
     fn load(&self, path: &Path) -> Result<String, String> {
-        self.files
-            .get(path)
-            .cloned()
-            .ok_or_else(|| "no such file".to_string())
+        self.files.get(path).cloned().ok_or_else(|| "no such file".to_string())
     }
 }
 
@@ -90,10 +83,7 @@ pub struct NoFiles;
 
 impl SourceLoader for NoFiles {
     fn load(&self, _path: &Path) -> Result<String, String> {
-        Err(
-            "this caller reads no library files (use `pipeline::evaluate_with` with a loader)"
-                .into(),
-        )
+        Err("this caller reads no library files (use `pipeline::evaluate_with` with a loader)".into())
     }
 }
 
@@ -106,11 +96,7 @@ pub fn evaluate(file: &str, source: &str) -> Result<Evaluated, InputErrors> {
 
 /// Parses, validates and evaluates case-file text, reading the libraries it
 /// names through `loader`.
-pub fn evaluate_with(
-    file: &str,
-    source: &str,
-    loader: &dyn SourceLoader,
-) -> Result<Evaluated, InputErrors> {
+pub fn evaluate_with(file: &str, source: &str, loader: &dyn SourceLoader) -> Result<Evaluated, InputErrors> {
     let design = design_with(file, source, loader)?;
     let calculation = calculate(&design).map_err(|e| {
         InputErrors::one(
@@ -120,20 +106,13 @@ pub fn evaluate_with(
                 .hint("the inputs lie outside the range where the code formulas give a result"),
         )
     })?;
-    Ok(Evaluated {
-        design,
-        calculation,
-    })
+    Ok(Evaluated { design, calculation })
 }
 
 /// Parses the case, loads and parses the libraries it names, and validates
 /// the design. A library that does not parse is reported against the
 /// library file itself.
-pub fn design_with(
-    file: &str,
-    source: &str,
-    loader: &dyn SourceLoader,
-) -> Result<Design, InputErrors> {
+pub fn design_with(file: &str, source: &str, loader: &dyn SourceLoader) -> Result<Design, InputErrors> {
     let case = crate::case::parse_case(file, source)?;
     let mut libraries = Libraries::new();
     for m in case.materials.values() {

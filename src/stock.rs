@@ -22,8 +22,8 @@ pub struct Candidate {
 /// every 5 mm to 300 mm (common practice, no source).
 pub fn si_plate_list() -> Vec<Quantity> {
     let mut mm: Vec<f64> = vec![
-        3.0, 4.0, 5.0, 6.0, 8.0, 10.0, 12.0, 14.0, 15.0, 16.0, 18.0, 20.0, 22.0, 25.0, 28.0, 30.0,
-        32.0, 35.0, 38.0, 40.0, 45.0, 50.0,
+        3.0, 4.0, 5.0, 6.0, 8.0, 10.0, 12.0, 14.0, 15.0, 16.0, 18.0, 20.0, 22.0, 25.0, 28.0, 30.0, 32.0, 35.0, 38.0,
+        40.0, 45.0, 50.0,
     ];
     mm.extend((11..=60).map(|i| f64::from(i) * 5.0));
     mm.into_iter().map(Quantity::mm).collect()
@@ -34,10 +34,7 @@ pub fn si_plate_list() -> Vec<Quantity> {
 pub fn us_plate_list() -> Vec<Quantity> {
     let sixteenths = (2..=16).map(|i| f64::from(i) / 16.0);
     let eighths = (9..=96).map(|i| f64::from(i) / 8.0);
-    sixteenths
-        .chain(eighths)
-        .map(|inches| Quantity::new(inches * INCH, Kind::Length))
-        .collect()
+    sixteenths.chain(eighths).map(|inches| Quantity::new(inches * INCH, Kind::Length)).collect()
 }
 
 /// The default plate list for a report unit system.
@@ -83,84 +80,42 @@ pub const PIPE_SIZES: &[PipeSize] = &[
     PipeSize {
         nps: "1/2",
         outside_diameter_in: 0.840,
-        walls: &[
-            ("Sch 40", 0.109),
-            ("Sch 80", 0.147),
-            ("Sch 160", 0.188),
-            ("XXS", 0.294),
-        ],
+        walls: &[("Sch 40", 0.109), ("Sch 80", 0.147), ("Sch 160", 0.188), ("XXS", 0.294)],
     },
     PipeSize {
         nps: "3/4",
         outside_diameter_in: 1.050,
-        walls: &[
-            ("Sch 40", 0.113),
-            ("Sch 80", 0.154),
-            ("Sch 160", 0.219),
-            ("XXS", 0.308),
-        ],
+        walls: &[("Sch 40", 0.113), ("Sch 80", 0.154), ("Sch 160", 0.219), ("XXS", 0.308)],
     },
     PipeSize {
         nps: "1",
         outside_diameter_in: 1.315,
-        walls: &[
-            ("Sch 40", 0.133),
-            ("Sch 80", 0.179),
-            ("Sch 160", 0.250),
-            ("XXS", 0.358),
-        ],
+        walls: &[("Sch 40", 0.133), ("Sch 80", 0.179), ("Sch 160", 0.250), ("XXS", 0.358)],
     },
     PipeSize {
         nps: "1-1/2",
         outside_diameter_in: 1.900,
-        walls: &[
-            ("Sch 40", 0.145),
-            ("Sch 80", 0.200),
-            ("Sch 160", 0.281),
-            ("XXS", 0.400),
-        ],
+        walls: &[("Sch 40", 0.145), ("Sch 80", 0.200), ("Sch 160", 0.281), ("XXS", 0.400)],
     },
     PipeSize {
         nps: "2",
         outside_diameter_in: 2.375,
-        walls: &[
-            ("Sch 40", 0.154),
-            ("Sch 80", 0.218),
-            ("Sch 160", 0.344),
-            ("XXS", 0.436),
-        ],
+        walls: &[("Sch 40", 0.154), ("Sch 80", 0.218), ("Sch 160", 0.344), ("XXS", 0.436)],
     },
     PipeSize {
         nps: "3",
         outside_diameter_in: 3.500,
-        walls: &[
-            ("Sch 40", 0.216),
-            ("Sch 80", 0.300),
-            ("Sch 160", 0.438),
-            ("XXS", 0.600),
-        ],
+        walls: &[("Sch 40", 0.216), ("Sch 80", 0.300), ("Sch 160", 0.438), ("XXS", 0.600)],
     },
     PipeSize {
         nps: "4",
         outside_diameter_in: 4.500,
-        walls: &[
-            ("Sch 40", 0.237),
-            ("Sch 80", 0.337),
-            ("Sch 120", 0.438),
-            ("Sch 160", 0.531),
-            ("XXS", 0.674),
-        ],
+        walls: &[("Sch 40", 0.237), ("Sch 80", 0.337), ("Sch 120", 0.438), ("Sch 160", 0.531), ("XXS", 0.674)],
     },
     PipeSize {
         nps: "6",
         outside_diameter_in: 6.625,
-        walls: &[
-            ("Sch 40", 0.280),
-            ("Sch 80", 0.432),
-            ("Sch 120", 0.562),
-            ("Sch 160", 0.719),
-            ("XXS", 0.864),
-        ],
+        walls: &[("Sch 40", 0.280), ("Sch 80", 0.432), ("Sch 120", 0.562), ("Sch 160", 0.719), ("XXS", 0.864)],
     },
     PipeSize {
         nps: "8",
@@ -277,9 +232,7 @@ pub const PIPE_SIZES: &[PipeSize] = &[
 /// The pipe size whose outside diameter matches `od` within 0.5 mm (so that
 /// the metric 168.3 mm finds NPS 6 at 6.625 in = 168.275 mm).
 pub fn pipe_size_for(od: Quantity) -> Option<&'static PipeSize> {
-    PIPE_SIZES
-        .iter()
-        .find(|p| (p.outside_diameter().value - od.value).abs() <= 0.5e-3)
+    PIPE_SIZES.iter().find(|p| (p.outside_diameter().value - od.value).abs() <= 0.5e-3)
 }
 
 /// The outcome of a search through a list.
@@ -297,16 +250,9 @@ pub struct Search {
 /// Candidates are searched in order of thickness whatever their order in the list.
 pub fn search(candidates: &[Candidate], minimum: f64, deduction: &dyn Fn(f64) -> f64) -> Search {
     let mut order: Vec<usize> = (0..candidates.len()).collect();
-    order.sort_by(|a, b| {
-        candidates[*a]
-            .thickness
-            .value
-            .total_cmp(&candidates[*b].thickness.value)
-    });
+    order.sort_by(|a, b| candidates[*a].thickness.value.total_cmp(&candidates[*b].thickness.value));
     let covers = |t: f64| t - deduction(t) >= minimum * (1.0 - 1e-12) - 1e-15;
-    let pos = order
-        .iter()
-        .position(|i| covers(candidates[*i].thickness.value));
+    let pos = order.iter().position(|i| covers(candidates[*i].thickness.value));
     Search {
         selected: pos.map(|p| order[p]),
         thinner: match pos {
@@ -322,12 +268,7 @@ mod tests {
     use super::*;
 
     fn plates(mm: &[f64]) -> Vec<Candidate> {
-        mm.iter()
-            .map(|t| Candidate {
-                thickness: Quantity::mm(*t),
-                label: format!("{t} mm"),
-            })
-            .collect()
+        mm.iter().map(|t| Candidate { thickness: Quantity::mm(*t), label: format!("{t} mm") }).collect()
     }
 
     #[test]
@@ -376,10 +317,7 @@ mod tests {
         let us = us_plate_list();
         assert!((us[0].value - INCH / 8.0).abs() < 1e-12);
         // After 1 in, steps of 1/8 in.
-        let i = us
-            .iter()
-            .position(|q| (q.value - INCH).abs() < 1e-12)
-            .unwrap();
+        let i = us.iter().position(|q| (q.value - INCH).abs() < 1e-12).unwrap();
         assert!((us[i + 1].value - 1.125 * INCH).abs() < 1e-12);
         for p in PIPE_SIZES {
             assert!(p.walls.windows(2).all(|w| w[0].1 < w[1].1), "NPS {}", p.nps);

@@ -45,19 +45,12 @@ fn strip_note(s: &str) -> &str {
 }
 
 fn check_expectation(name: &str, line: &str, json: &Value, stderr: &str) -> Result<(), String> {
-    let (kind, rest) = line
-        .split_once(':')
-        .ok_or_else(|| format!("{name}: malformed expectation `{line}`"))?;
+    let (kind, rest) = line.split_once(':').ok_or_else(|| format!("{name}: malformed expectation `{line}`"))?;
     let rest = strip_note(rest.trim());
     match kind {
         "expect" => {
-            let (ptr, want) = rest
-                .split_once(" = ")
-                .ok_or_else(|| format!("{name}: `{line}` needs ` = `"))?;
-            let want: f64 = want
-                .trim()
-                .parse()
-                .map_err(|_| format!("{name}: `{want}` is not a number"))?;
+            let (ptr, want) = rest.split_once(" = ").ok_or_else(|| format!("{name}: `{line}` needs ` = `"))?;
+            let want: f64 = want.trim().parse().map_err(|_| format!("{name}: `{want}` is not a number"))?;
             let got = json
                 .pointer(ptr.trim())
                 .and_then(Value::as_f64)
@@ -74,9 +67,8 @@ fn check_expectation(name: &str, line: &str, json: &Value, stderr: &str) -> Resu
             }
         }
         "expect-text" => {
-            let (ptr, want) = rest
-                .split_once(' ')
-                .ok_or_else(|| format!("{name}: `{line}` needs a pointer and text"))?;
+            let (ptr, want) =
+                rest.split_once(' ').ok_or_else(|| format!("{name}: `{line}` needs a pointer and text"))?;
             let got = json.pointer(ptr).and_then(Value::as_str).unwrap_or("");
             if !got.contains(want) {
                 return Err(format!("{name}: {ptr} = `{got}` does not contain `{want}`"));
@@ -84,11 +76,8 @@ fn check_expectation(name: &str, line: &str, json: &Value, stderr: &str) -> Resu
         }
         "expect-step" => {
             let mut parts = rest.splitn(3, ' ');
-            let (ptr, symbol, want) = (
-                parts.next().unwrap_or(""),
-                parts.next().unwrap_or(""),
-                parts.next().unwrap_or(""),
-            );
+            let (ptr, symbol, want) =
+                (parts.next().unwrap_or(""), parts.next().unwrap_or(""), parts.next().unwrap_or(""));
             let steps = json
                 .pointer(&format!("{ptr}/steps"))
                 .and_then(Value::as_array)
@@ -100,25 +89,18 @@ fn check_expectation(name: &str, line: &str, json: &Value, stderr: &str) -> Resu
                         .any(|f| s[*f].as_str().unwrap_or("").contains(want))
             });
             if !found {
-                return Err(format!(
-                    "{name}: no step `{symbol}` at {ptr} mentions `{want}`"
-                ));
+                return Err(format!("{name}: no step `{symbol}` at {ptr} mentions `{want}`"));
             }
         }
         "expect-caution" => {
             let cautions = json["cautions"].as_array().cloned().unwrap_or_default();
-            if !cautions
-                .iter()
-                .any(|c| c.as_str().unwrap_or("").contains(rest))
-            {
+            if !cautions.iter().any(|c| c.as_str().unwrap_or("").contains(rest)) {
                 return Err(format!("{name}: no caution contains `{rest}`"));
             }
         }
         "expect-error" => {
             if !stderr.contains(rest) {
-                return Err(format!(
-                    "{name}: the error output lacks `{rest}`:\n{stderr}"
-                ));
+                return Err(format!("{name}: the error output lacks `{rest}`:\n{stderr}"));
             }
         }
         "expect-exit" => {}
@@ -158,14 +140,8 @@ fn every_fixture_case_meets_its_expectations() {
             continue;
         }
         if exit == 2 {
-            assert!(
-                stdout.is_empty(),
-                "{name}: an input error must write nothing"
-            );
-            assert!(
-                stderr.contains("nothing was computed or written"),
-                "{name}: {stderr}"
-            );
+            assert!(stdout.is_empty(), "{name}: an input error must write nothing");
+            assert!(stderr.contains("nothing was computed or written"), "{name}: {stderr}");
             assert!(!stderr.contains("panicked"), "{name}: {stderr}");
         }
         let json: Value = if exit == 2 {
@@ -223,17 +199,12 @@ fn every_uw12_cell_reaches_the_sheet_and_refused_cells_are_input_errors() {
     ];
     for (joint_type, cells) in table {
         for (extent, want) in ["full", "spot", "none"].iter().zip(cells) {
-            let text = case_with(&format!(
-                "joint_type = {joint_type}\nradiography = \"{extent}\""
-            ));
+            let text = case_with(&format!("joint_type = {joint_type}\nradiography = \"{extent}\""));
             match (evaluate("t.toml", &text), want) {
                 (Ok(ev), Some(e)) => {
                     assert_eq!(ev.design.components[0].joint_efficiency, e);
-                    let step = ev.calculation.components[0]
-                        .steps
-                        .iter()
-                        .find(|s| s.symbol == "E")
-                        .expect("E is recorded");
+                    let step =
+                        ev.calculation.components[0].steps.iter().find(|s| s.symbol == "E").expect("E is recorded");
                     assert!(step.clause.contains("UW-12") && step.clause.contains("UW-11"));
                 }
                 (Err(err), None) => {
@@ -257,10 +228,8 @@ fn every_uw12_cell_reaches_the_sheet_and_refused_cells_are_input_errors() {
 #[test]
 fn libraries_come_through_the_loader_and_results_do_not_depend_on_it() {
     // The same library text given in memory and read from disk gives the same results.
-    let library = std::fs::read_to_string(
-        Path::new(env!("CARGO_MANIFEST_DIR")).join("materials/example-library.toml"),
-    )
-    .unwrap();
+    let library =
+        std::fs::read_to_string(Path::new(env!("CARGO_MANIFEST_DIR")).join("materials/example-library.toml")).unwrap();
     let text = case_with("joint_efficiency = 1.0").replace(
         "name = \"Test plate\"\nallowable_stress = \"138 MPa\"",
         "library = \"lib.toml\"\nentry = \"sa-516-70\"",
@@ -303,10 +272,11 @@ fn the_library_example_selects_thicknesses_and_warns() {
         assert!(c["selected_thickness"].as_f64().is_some(), "{}", c["id"]);
     }
     assert_eq!(json["vessel"]["order_list"].as_array().unwrap().len(), 4);
-    assert!(json["cautions"].as_array().unwrap().iter().any(|c| c
-        .as_str()
+    assert!(json["cautions"]
+        .as_array()
         .unwrap()
-        .contains("illustrative values from memory")));
+        .iter()
+        .any(|c| c.as_str().unwrap().contains("illustrative values from memory")));
     // The terminal summary carries the same warning.
     let out = Command::new(env!("CARGO_BIN_EXE_knuckle"))
         .current_dir(&dir)
@@ -321,10 +291,7 @@ fn the_library_example_selects_thicknesses_and_warns() {
 #[test]
 fn materials_command_lists_and_shows() {
     let run = |args: &[&str]| {
-        let out = Command::new(env!("CARGO_BIN_EXE_knuckle"))
-            .args(args)
-            .output()
-            .unwrap();
+        let out = Command::new(env!("CARGO_BIN_EXE_knuckle")).args(args).output().unwrap();
         (
             out.status.code().unwrap_or(-1),
             String::from_utf8_lossy(&out.stdout).into_owned(),
@@ -336,10 +303,7 @@ fn materials_command_lists_and_shows() {
     assert!(out.contains("sa-516-70") && out.contains("caution: illustrative values from memory"));
     let (code, out, _) = run(&["materials", "sa-516-70"]);
     assert_eq!(code, 0);
-    assert!(
-        out.contains("temperature (degF)") && out.contains("18.8"),
-        "{out}"
-    );
+    assert!(out.contains("temperature (degF)") && out.contains("18.8"), "{out}");
     let (code, _, err) = run(&["materials", "no-such-key"]);
     assert_eq!(code, 2);
     assert!(err.contains("has no material `no-such-key`"), "{err}");

@@ -52,11 +52,7 @@ fn opt(u: UnitSystem, q: Option<crate::units::Quantity>, up: bool) -> String {
     match q {
         None => "n/a".to_string(),
         Some(q) => {
-            let s = if up {
-                u.display_up(q)
-            } else {
-                u.display_down(q)
-            };
+            let s = if up { u.display_up(q) } else { u.display_down(q) };
             // The unit is in the column header.
             s.split(' ').next().unwrap_or("").to_string()
         }
@@ -71,16 +67,8 @@ pub fn summary_text(ev: &Evaluated) -> String {
     let lu = u.unit(crate::units::Kind::Length).0;
     let pu = u.unit(crate::units::Kind::Pressure).0;
     let mut out = String::new();
-    out.push_str(&format!(
-        "{} revision {}  {}\n",
-        d.document.number, d.document.revision, d.document.title
-    ));
-    out.push_str(&format!(
-        "{} (edition {}), report units {}\n\n",
-        c.rule_set_title,
-        c.edition,
-        u.name()
-    ));
+    out.push_str(&format!("{} revision {}  {}\n", d.document.number, d.document.revision, d.document.title));
+    out.push_str(&format!("{} (edition {}), report units {}\n\n", c.rule_set_title, c.edition, u.name()));
     let header = [
         "component".to_string(),
         "type".to_string(),
@@ -103,16 +91,11 @@ pub fn summary_text(ev: &Evaluated) -> String {
                 (None, None) => "not given".into(),
             },
             opt(u, r.mawp, false),
-            if r.acceptable {
-                "acceptable".into()
-            } else {
-                "NOT ACCEPTABLE".into()
-            },
+            if r.acceptable { "acceptable".into() } else { "NOT ACCEPTABLE".into() },
         ]);
     }
-    let widths: Vec<usize> = (0..rows[0].len())
-        .map(|i| rows.iter().map(|r| r[i].chars().count()).max().unwrap_or(0))
-        .collect();
+    let widths: Vec<usize> =
+        (0..rows[0].len()).map(|i| rows.iter().map(|r| r[i].chars().count()).max().unwrap_or(0)).collect();
     for (n, row) in rows.iter().enumerate() {
         let cells: Vec<String> = row
             .iter()
@@ -129,13 +112,7 @@ pub fn summary_text(ev: &Evaluated) -> String {
         out.push_str(cells.join("  ").trim_end());
         out.push('\n');
         if n == 0 {
-            out.push_str(
-                &widths
-                    .iter()
-                    .map(|w| "-".repeat(*w))
-                    .collect::<Vec<_>>()
-                    .join("  "),
-            );
+            out.push_str(&widths.iter().map(|w| "-".repeat(*w)).collect::<Vec<_>>().join("  "));
             out.push('\n');
         }
     }
@@ -144,20 +121,10 @@ pub fn summary_text(ev: &Evaluated) -> String {
     out.push_str(&format!(
         "vessel MAWP at the top       {} (governed by {})\n",
         u.display_down(v.mawp),
-        if v.governing_component.is_empty() {
-            "no component"
-        } else {
-            &v.governing_component
-        }
+        if v.governing_component.is_empty() { "no component" } else { &v.governing_component }
     ));
-    out.push_str(&format!(
-        "hydrostatic test, UG-99(b)   {}\n",
-        u.display_up(v.hydrotest_pressure)
-    ));
-    out.push_str(&format!(
-        "pneumatic test, UG-100       {}\n",
-        u.display_up(v.pneumatic_test_pressure)
-    ));
+    out.push_str(&format!("hydrostatic test, UG-99(b)   {}\n", u.display_up(v.hydrotest_pressure)));
+    out.push_str(&format!("pneumatic test, UG-100       {}\n", u.display_up(v.pneumatic_test_pressure)));
     if let Some(m) = v.empty_mass {
         out.push_str(&format!(
             "empty mass                   {}{}\n",
@@ -170,10 +137,7 @@ pub fn summary_text(ev: &Evaluated) -> String {
         ));
     }
     if let Some(vol) = v.volume {
-        out.push_str(&format!(
-            "inside volume                {}\n",
-            u.display(vol)
-        ));
+        out.push_str(&format!("inside volume                {}\n", u.display(vol)));
     }
     if let Some(m) = v.liquid_mass {
         out.push_str(&format!("liquid mass when full        {}\n", u.display(m)));
@@ -192,10 +156,7 @@ pub fn summary_text(ev: &Evaluated) -> String {
             } else {
                 format!("{} ({thickness})", o.ordered_as)
             };
-            out.push_str(&format!(
-                "  {}: {}, {what}{blank}\n",
-                o.component, o.material
-            ));
+            out.push_str(&format!("  {}: {}, {what}{blank}\n", o.component, o.material));
         }
     }
     let cautions = crate::cautions::data(d, c);
@@ -212,14 +173,7 @@ pub fn summary_text(ev: &Evaluated) -> String {
             out.push_str(&format!("  {id}: {} ({}): {}\n", k.name, k.clause, k.note));
         }
     }
-    out.push_str(&format!(
-        "\nstatus: {}\n",
-        if c.acceptable() {
-            "ACCEPTABLE"
-        } else {
-            "NOT ACCEPTABLE"
-        }
-    ));
+    out.push_str(&format!("\nstatus: {}\n", if c.acceptable() { "ACCEPTABLE" } else { "NOT ACCEPTABLE" }));
     out.push_str("\nThis output supports, never replaces, a qualified engineer; verify against the code edition in force\nand local regulations; the calculation is subject to review by a licensed or authorised engineer.\n");
     out
 }

@@ -3,9 +3,7 @@
 //! example library built into the binary is shown.
 
 use super::{EXIT_INPUT, EXIT_OK};
-use crate::materials::{
-    parse_library, Library, LibraryMaterial, EXAMPLE_LIBRARY, EXAMPLE_LIBRARY_NAME,
-};
+use crate::materials::{parse_library, Library, LibraryMaterial, EXAMPLE_LIBRARY, EXAMPLE_LIBRARY_NAME};
 use crate::units::UnitSystem;
 use std::path::PathBuf;
 
@@ -22,10 +20,7 @@ pub struct MaterialsArgs {
 /// Runs `materials`.
 pub fn run(a: &MaterialsArgs) -> i32 {
     let (name, text) = match &a.library {
-        None => (
-            EXAMPLE_LIBRARY_NAME.to_string(),
-            EXAMPLE_LIBRARY.to_string(),
-        ),
+        None => (EXAMPLE_LIBRARY_NAME.to_string(), EXAMPLE_LIBRARY.to_string()),
         Some(p) => match std::fs::read_to_string(p) {
             Ok(t) => (p.display().to_string(), t),
             Err(e) => {
@@ -78,9 +73,8 @@ fn header(lib: &Library) -> String {
 }
 
 fn table(rows: &[Vec<String>], right: &[usize]) -> String {
-    let widths: Vec<usize> = (0..rows[0].len())
-        .map(|i| rows.iter().map(|r| r[i].chars().count()).max().unwrap_or(0))
-        .collect();
+    let widths: Vec<usize> =
+        (0..rows[0].len()).map(|i| rows.iter().map(|r| r[i].chars().count()).max().unwrap_or(0)).collect();
     let mut out = String::new();
     for (n, row) in rows.iter().enumerate() {
         let cells: Vec<String> = row
@@ -151,16 +145,10 @@ pub fn show_text(lib: &Library, m: &LibraryMaterial) -> String {
     }
     out.push_str(&format!("table source       {}\n\n", m.table.source));
     let t = &m.table;
-    let mut rows = vec![vec![
-        format!("temperature ({})", t.temperature_unit),
-        format!("allowable stress ({})", t.stress_unit),
-    ]];
+    let mut rows =
+        vec![vec![format!("temperature ({})", t.temperature_unit), format!("allowable stress ({})", t.stress_unit)]];
     for r in &t.rows {
-        let strip = |s: String, unit: &str| {
-            s.strip_suffix(unit)
-                .map(|x| x.trim_end().to_string())
-                .unwrap_or(s)
-        };
+        let strip = |s: String, unit: &str| s.strip_suffix(unit).map(|x| x.trim_end().to_string()).unwrap_or(s);
         rows.push(vec![
             strip(t.show_temperature(r.temperature), &t.temperature_unit),
             strip(t.show_stress(r.stress), &t.stress_unit),

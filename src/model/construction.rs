@@ -48,12 +48,7 @@ pub(super) fn read_material(
         return library_material(r, key, m, span, libraries, design_t, test_t);
     }
     let name = r
-        .required(
-            &k("name"),
-            &m.name,
-            span.clone(),
-            "the specification and grade, e.g. \"SA-516 Grade 70\"",
-        )
+        .required(&k("name"), &m.name, span.clone(), "the specification and grade, e.g. \"SA-516 Grade 70\"")
         .map(|s| s.get_ref().clone());
     let s = r
         .required(
@@ -113,26 +108,15 @@ fn library_material(
     // The library is the one source of these values; a second one in the
     // case file would leave the reader guessing which was used.
     for (f, s) in [
-        (
-            "allowable_stress",
-            m.allowable_stress.as_ref().map(|v| v.span()),
-        ),
-        (
-            "test_allowable_stress",
-            m.test_allowable_stress.as_ref().map(|v| v.span()),
-        ),
+        ("allowable_stress", m.allowable_stress.as_ref().map(|v| v.span())),
+        ("test_allowable_stress", m.test_allowable_stress.as_ref().map(|v| v.span())),
         ("density", m.density.as_ref().map(|v| v.span())),
         ("product_form", m.product_form.as_ref().map(|v| v.span())),
     ] {
         if s.is_some() {
-            r.err(
-                Diagnostic::new(
-                    k(f),
-                    s,
-                    format!("`{f}` cannot be given for a material taken from a library"),
-                )
-                .hint("remove the key (the library gives it), or remove `library` and `entry` and give the values directly"),
-            );
+            r.err(Diagnostic::new(k(f), s, format!("`{f}` cannot be given for a material taken from a library")).hint(
+                "remove the key (the library gives it), or remove `library` and `entry` and give the values directly",
+            ));
         }
     }
     let path = r.required(
@@ -141,12 +125,8 @@ fn library_material(
         span.clone(),
         "the library file, relative to the case file, e.g. \"../materials/example-library.toml\"",
     );
-    let entry = r.required(
-        &k("entry"),
-        &m.entry,
-        span.clone(),
-        "the material's key in the library, e.g. \"sa-516-70\"",
-    );
+    let entry =
+        r.required(&k("entry"), &m.entry, span.clone(), "the material's key in the library, e.g. \"sa-516-70\"");
     let (path, entry) = (path?, entry?);
     let library = match libraries.get(path.get_ref()) {
         Some(Ok(lib)) => lib,
@@ -157,9 +137,7 @@ fn library_material(
                     span_of(path),
                     format!("cannot read library file `{}`: {why}", path.get_ref()),
                 )
-                .expected(
-                    "a readable library file; the path is relative to the case file's folder",
-                ),
+                .expected("a readable library file; the path is relative to the case file's folder"),
             );
             return None;
         }
@@ -170,9 +148,7 @@ fn library_material(
                     span_of(path),
                     format!("library file `{}` was not loaded", path.get_ref()),
                 )
-                .hint(
-                    "this entry point reads no files; use `pipeline::evaluate_with` with a loader",
-                ),
+                .hint("this entry point reads no files; use `pipeline::evaluate_with` with a loader"),
             );
             return None;
         }
@@ -183,11 +159,7 @@ fn library_material(
             Diagnostic::new(
                 k("entry"),
                 span_of(entry),
-                format!(
-                    "library `{}` has no material `{}`",
-                    library.file,
-                    entry.get_ref()
-                ),
+                format!("library `{}` has no material `{}`", library.file, entry.get_ref()),
             )
             .expected(format!("one of: {}", known.join(", ")))
             .hint("`knuckle materials --library FILE` lists a library"),
@@ -211,11 +183,7 @@ fn library_material(
     let st = stress(r, &test)?;
     Some(Material {
         key: key.to_string(),
-        name: m
-            .name
-            .as_ref()
-            .map(|n| n.get_ref().clone())
-            .unwrap_or_else(|| lm.name()),
+        name: m.name.as_ref().map(|n| n.get_ref().clone()).unwrap_or_else(|| lm.name()),
         allowable_stress: s,
         test_allowable_stress: st,
         density: lm.density,
@@ -243,18 +211,11 @@ fn bracket(
     if let Some(b) = lm.table.bracket(t.value) {
         return Some(b);
     }
-    let what = if t.key == "design.test_temperature" {
-        "test temperature"
-    } else {
-        "design temperature"
-    };
+    let what = if t.key == "design.test_temperature" { "test temperature" } else { "design temperature" };
     let (span, shown) = match &t.span {
         Some(s) => (Some(s.clone()), format!("`{}` = \"{}\"", t.key, t.written)),
         // A default test temperature has no key of its own: point at the entry.
-        None => (
-            entry_span,
-            format!("the default test temperature {}", t.written),
-        ),
+        None => (entry_span, format!("the default test temperature {}", t.written)),
     };
     r.err(
         Diagnostic::new(
@@ -353,24 +314,16 @@ pub(super) fn read_joint<'a>(
     let joint = match (&c.joint_type, seamless) {
         (Some(_), Some((true, s))) => {
             r.err(
-                Diagnostic::new(
-                    k("seamless"),
-                    Some(s),
-                    "`seamless = true` and `joint_type` are both given",
-                )
-                .expected("either a seamless part (UW-12(d)) or a welded joint type, not both"),
+                Diagnostic::new(k("seamless"), Some(s), "`seamless = true` and `joint_type` are both given")
+                    .expected("either a seamless part (UW-12(d)) or a welded joint type, not both"),
             );
             return None;
         }
         (None, Some((true, _))) => Joint::Seamless { radiography },
         (None, _) => {
             r.err(
-                Diagnostic::new(
-                    k("joint_type"),
-                    span,
-                    "the joint is described but `joint_type` is not given",
-                )
-                .expected("joint_type = 1 to 6 (Table UW-12), or `seamless = true`"),
+                Diagnostic::new(k("joint_type"), span, "the joint is described but `joint_type` is not given")
+                    .expected("joint_type = 1 to 6 (Table UW-12), or `seamless = true`"),
             );
             return None;
         }
@@ -379,21 +332,14 @@ pub(super) fn read_joint<'a>(
                 Scalar::Int(n) => *n,
                 _ => {
                     r.err(
-                        Diagnostic::new(
-                            k("joint_type"),
-                            Some(t.span()),
-                            "`joint_type` must be a whole number",
-                        )
-                        .expected("1 to 6 (Table UW-12)"),
+                        Diagnostic::new(k("joint_type"), Some(t.span()), "`joint_type` must be a whole number")
+                            .expected("1 to 6 (Table UW-12)"),
                     );
                     return None;
                 }
             };
             match u8::try_from(n) {
-                Ok(joint_type) if (1..=6).contains(&joint_type) => Joint::Welded {
-                    joint_type,
-                    radiography,
-                },
+                Ok(joint_type) if (1..=6).contains(&joint_type) => Joint::Welded { joint_type, radiography },
                 _ => {
                     r.err(
                         Diagnostic::new(
@@ -411,15 +357,9 @@ pub(super) fn read_joint<'a>(
     };
     match joint.efficiency() {
         Ok(e) => Some(JointInput::Described(joint, e)),
-        Err(JointRefusal::NotPermitted {
-            joint_type,
-            radiography,
-            allowed,
-        }) => {
-            let ok: Vec<String> = allowed
-                .iter()
-                .map(|(r, e)| format!("radiography = \"{}\" (E = {:.2})", r.name(), e))
-                .collect();
+        Err(JointRefusal::NotPermitted { joint_type, radiography, allowed }) => {
+            let ok: Vec<String> =
+                allowed.iter().map(|(r, e)| format!("radiography = \"{}\" (E = {:.2})", r.name(), e)).collect();
             r.err(
                 Diagnostic::new(
                     k("radiography"),
@@ -471,9 +411,7 @@ pub(super) fn read_undertolerance(
     if let Scalar::Text(t) = v.get_ref() {
         if let Some(num) = t.trim().strip_suffix('%') {
             return match num.trim().parse::<f64>() {
-                Ok(p) if p.is_finite() && (0.0..50.0).contains(&p) => {
-                    Some(Some(Undertolerance::Fraction(p / 100.0)))
-                }
+                Ok(p) if p.is_finite() && (0.0..50.0).contains(&p) => Some(Some(Undertolerance::Fraction(p / 100.0))),
                 _ => {
                     r.err(
                         Diagnostic::new(
@@ -481,17 +419,14 @@ pub(super) fn read_undertolerance(
                             Some(v.span()),
                             format!("`{}` is not a percentage from 0 % to below 50 %", t.trim()),
                         )
-                        .expected(
-                            "a percentage such as \"12.5 %\", or a length such as \"0.3 mm\"",
-                        ),
+                        .expected("a percentage such as \"12.5 %\", or a length such as \"0.3 mm\""),
                     );
                     None
                 }
             };
         }
     }
-    r.non_negative(&key, v, Kind::Length)
-        .map(|q| Some(Undertolerance::Length(q)))
+    r.non_negative(&key, v, Kind::Length).map(|q| Some(Undertolerance::Length(q)))
 }
 
 /// The pipe size of a cylinder made from pipe whose wall is to be selected.
@@ -546,18 +481,13 @@ pub(super) fn read_pipe_size(
         return None;
     };
     if size.is_none() {
-        let sizes: Vec<String> = crate::stock::PIPE_SIZES
-            .iter()
-            .map(|p| format!("NPS {} ({} in)", p.nps, p.outside_diameter_in))
-            .collect();
+        let sizes: Vec<String> =
+            crate::stock::PIPE_SIZES.iter().map(|p| format!("NPS {} ({} in)", p.nps, p.outside_diameter_in)).collect();
         r.err(
             Diagnostic::new(
                 k("outside_diameter"),
                 c.outside_diameter.as_ref().map(|v| v.span()),
-                format!(
-                    "outside diameter {} matches no pipe size in the schedule table",
-                    UnitSystem::Si.display(od)
-                ),
+                format!("outside diameter {} matches no pipe size in the schedule table", UnitSystem::Si.display(od)),
             )
             .expected(format!("one of: {}", sizes.join(", ")))
             .hint("give `nominal_thickness` for other sizes"),
@@ -576,21 +506,13 @@ pub(super) fn read_stock(r: &mut Reader, case: &CaseFile, units: UnitSystem) -> 
             UnitSystem::Us => "default US plate list".to_string(),
         },
     };
-    let Some(list) = case
-        .stock
-        .as_ref()
-        .and_then(|s| s.get_ref().plate_thicknesses.as_ref())
-    else {
+    let Some(list) = case.stock.as_ref().and_then(|s| s.get_ref().plate_thicknesses.as_ref()) else {
         return default;
     };
     if list.get_ref().is_empty() {
         r.err(
-            Diagnostic::new(
-                "stock.plate_thicknesses",
-                span_of(list),
-                "`stock.plate_thicknesses` is empty",
-            )
-            .expected("a list of thicknesses, e.g. [\"6 mm\", \"8 mm\", \"10 mm\"]"),
+            Diagnostic::new("stock.plate_thicknesses", span_of(list), "`stock.plate_thicknesses` is empty")
+                .expected("a list of thicknesses, e.g. [\"6 mm\", \"8 mm\", \"10 mm\"]"),
         );
         return default;
     }
@@ -601,22 +523,13 @@ pub(super) fn read_stock(r: &mut Reader, case: &CaseFile, units: UnitSystem) -> 
         }
     }
     thicknesses.sort_by(|a, b| a.value.total_cmp(&b.value));
-    PlateStock {
-        thicknesses,
-        source: "plate list of the case file ([stock] plate_thicknesses)".to_string(),
-    }
+    PlateStock { thicknesses, source: "plate list of the case file ([stock] plate_thicknesses)".to_string() }
 }
 
 /// The product form of a component's material; plate when the material is
 /// unknown (that error is reported where the material key is read).
-pub(super) fn product_form_of(
-    material: Option<&String>,
-    validated: &BTreeMap<String, Material>,
-) -> ProductForm {
-    material
-        .and_then(|m| validated.get(m))
-        .map(|m| m.product_form)
-        .unwrap_or(ProductForm::Plate)
+pub(super) fn product_form_of(material: Option<&String>, validated: &BTreeMap<String, Material>) -> ProductForm {
+    material.and_then(|m| validated.get(m)).map(|m| m.product_form).unwrap_or(ProductForm::Plate)
 }
 
 impl Component {

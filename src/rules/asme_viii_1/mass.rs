@@ -34,10 +34,7 @@ pub struct HeadVolumes {
 
 fn density(s: &mut Sheet, m: &Material) {
     s.input("rho_m", &format!("density of {}", m.name), m.density);
-    s.bind(
-        "pi",
-        Quantity::new(std::f64::consts::PI, Kind::Dimensionless),
-    );
+    s.bind("pi", Quantity::new(std::f64::consts::PI, Kind::Dimensionless));
 }
 
 /// Records the mass and volume of a cylinder, sphere or cone. Formed heads
@@ -65,16 +62,9 @@ pub fn shell(s: &mut Sheet, c: &Component, m: &Material) -> Result<MassVolume, C
             let developed = if c.is_pipe() {
                 None
             } else {
-                Some(s.step(
-                    &f::DEVELOPED_LENGTH,
-                    "developed length of the rolled plate, on the mean diameter",
-                )?)
+                Some(s.step(&f::DEVELOPED_LENGTH, "developed length of the rolled plate, on the mean diameter")?)
             };
-            Ok(MassVolume {
-                mass: Some(mass),
-                volume: Some(volume),
-                developed_length: developed,
-            })
+            Ok(MassVolume { mass: Some(mass), volume: Some(volume), developed_length: developed })
         }
         ComponentKind::Sphere => {
             density(s, m);
@@ -86,16 +76,9 @@ pub fn shell(s: &mut Sheet, c: &Component, m: &Material) -> Result<MassVolume, C
             }
             let mass = s.step(&f::SPH_MASS, "empty mass of the sphere")?;
             let volume = s.step(&f::SPH_VOLUME, "inside volume of the sphere")?;
-            Ok(MassVolume {
-                mass: Some(mass),
-                volume: Some(volume),
-                developed_length: None,
-            })
+            Ok(MassVolume { mass: Some(mass), volume: Some(volume), developed_length: None })
         }
-        ComponentKind::ConicalSection {
-            small_diameter,
-            half_apex_angle,
-        } => {
+        ComponentKind::ConicalSection { small_diameter, half_apex_angle } => {
             density(s, m);
             s.bind("alpha", *half_apex_angle);
             match c.diameter {
@@ -106,20 +89,13 @@ pub fn shell(s: &mut Sheet, c: &Component, m: &Material) -> Result<MassVolume, C
                 Diameter::Outside(_) => {
                     s.input("D_2o", "outside diameter at the small end", *small_diameter);
                     s.step(&f::CONE_NEW_INSIDE, "inside diameter at the large end, new")?;
-                    s.step(
-                        &f::CONE_NEW_INSIDE_SMALL,
-                        "inside diameter at the small end, new",
-                    )?;
+                    s.step(&f::CONE_NEW_INSIDE_SMALL, "inside diameter at the small end, new")?;
                 }
             }
             s.step(&f::CONE_AXIAL_LENGTH, "axial length of the cone")?;
             let mass = s.step(&f::CONE_MASS, "empty mass of the cone")?;
             let volume = s.step(&f::CONE_VOLUME, "inside volume of the cone")?;
-            Ok(MassVolume {
-                mass: Some(mass),
-                volume: Some(volume),
-                developed_length: None,
-            })
+            Ok(MassVolume { mass: Some(mass), volume: Some(volume), developed_length: None })
         }
         ComponentKind::HemisphericalHead
         | ComponentKind::EllipsoidalHead { .. }
@@ -130,29 +106,13 @@ pub fn shell(s: &mut Sheet, c: &Component, m: &Material) -> Result<MassVolume, C
 /// Records the mass and volume of a formed head from volumes computed by
 /// the head geometry module; with `None` nothing is known and nothing is
 /// recorded.
-pub fn head(
-    s: &mut Sheet,
-    m: &Material,
-    volumes: Option<HeadVolumes>,
-) -> Result<MassVolume, CalcError> {
+pub fn head(s: &mut Sheet, m: &Material, volumes: Option<HeadVolumes>) -> Result<MassVolume, CalcError> {
     let Some(v) = volumes else {
         return Ok(MassVolume::default());
     };
     s.input("rho_m", &format!("density of {}", m.name), m.density);
-    s.input(
-        "V_m",
-        "metal volume of the head, from the head geometry",
-        v.metal,
-    );
+    s.input("V_m", "metal volume of the head, from the head geometry", v.metal);
     let mass = s.step(&f::HEAD_MASS, "empty mass of the head")?;
-    let volume = s.input(
-        "V",
-        "inside volume of the head, from the head geometry",
-        v.inside,
-    );
-    Ok(MassVolume {
-        mass: Some(mass),
-        volume: Some(volume),
-        developed_length: None,
-    })
+    let volume = s.input("V", "inside volume of the head, from the head geometry", v.inside);
+    Ok(MassVolume { mass: Some(mass), volume: Some(volume), developed_length: None })
 }

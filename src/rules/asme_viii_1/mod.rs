@@ -41,11 +41,8 @@ impl RuleSet for AsmeViii1 {
         f::ALL
     }
     fn evaluate(&self, design: &Design) -> Result<Calculation, CalcError> {
-        let components = design
-            .components
-            .iter()
-            .map(|c| evaluate_component(design, c))
-            .collect::<Result<Vec<_>, _>>()?;
+        let components =
+            design.components.iter().map(|c| evaluate_component(design, c)).collect::<Result<Vec<_>, _>>()?;
         let vessel = vessel::evaluate(design, &components)?;
         Ok(Calculation {
             rule_set: self.id().to_string(),
@@ -95,14 +92,8 @@ pub fn bind_diameter(s: &mut Sheet, c: &Component, condition: Condition) -> Resu
     match c.diameter {
         Diameter::Inside(d) => {
             s.input("D_n", "inside diameter, as given", d);
-            s.step(
-                &f::CORRODED_DIAMETER,
-                &format!("inside diameter, {}", condition.words()),
-            )?;
-            s.step(
-                &f::INSIDE_RADIUS,
-                &format!("inside radius, {}", condition.words()),
-            )?;
+            s.step(&f::CORRODED_DIAMETER, &format!("inside diameter, {}", condition.words()))?;
+            s.step(&f::INSIDE_RADIUS, &format!("inside radius, {}", condition.words()))?;
         }
         Diameter::Outside(d) => {
             // The outside does not corrode: the allowance is taken off the thickness.
@@ -124,36 +115,17 @@ pub fn evaluate_component(design: &Design, c: &Component) -> Result<ComponentRes
     let mut limits = Vec::new();
 
     // Loads.
-    s.input(
-        "P_d",
-        "design pressure at the vessel top",
-        design.conditions.pressure,
-    );
+    s.input("P_d", "design pressure at the vessel top", design.conditions.pressure);
     let static_head = match (design.conditions.liquid_density, c.liquid_head.value > 0.0) {
         (Some(rho), true) => {
             s.input("rho", "liquid density", rho);
-            s.input(
-                "g",
-                "standard gravity",
-                Quantity::new(STANDARD_GRAVITY, Kind::Acceleration),
-            );
-            s.input(
-                "h",
-                "liquid head at the component's lowest point",
-                c.liquid_head,
-            );
+            s.input("g", "standard gravity", Quantity::new(STANDARD_GRAVITY, Kind::Acceleration));
+            s.input("h", "liquid head at the component's lowest point", c.liquid_head);
             s.step(&f::STATIC_HEAD, "static head of the liquid")?
         }
-        _ => s.input(
-            "P_s",
-            "static head (no liquid head given)",
-            Quantity::new(0.0, Kind::Pressure),
-        ),
+        _ => s.input("P_s", "static head (no liquid head given)", Quantity::new(0.0, Kind::Pressure)),
     };
-    let p = s.step(
-        &f::PRESSURE_AT_COMPONENT,
-        "design pressure at the component",
-    )?;
+    let p = s.step(&f::PRESSURE_AT_COMPONENT, "design pressure at the component")?;
 
     // Material, joint and allowances.
     stress::allowable(&mut s, material, Condition::HotCorroded, "S")?;
@@ -192,55 +164,28 @@ pub fn evaluate_component(design: &Design, c: &Component) -> Result<ComponentRes
         "thinning allowance (none: not a formed head)"
     };
     s.input("t_th", thinning_words, c.thinning_allowance);
-    s.input(
-        "t_f",
-        "minimum thickness exclusive of corrosion allowance",
-        ug16_floor(u),
-    );
+    s.input("t_f", "minimum thickness exclusive of corrosion allowance", ug16_floor(u));
 
     // Corroded geometry and required thickness.
     bind_diameter(&mut s, c, Condition::HotCorroded)?;
     let required = match &c.kind {
         ComponentKind::Cylinder => Some(shells::cylinder_thickness(&mut s, c)?),
-        ComponentKind::Sphere | ComponentKind::HemisphericalHead => {
-            Some(shells::sphere_thickness(&mut s, c)?)
+        ComponentKind::Sphere | ComponentKind::HemisphericalHead => Some(shells::sphere_thickness(&mut s, c)?),
+        ComponentKind::EllipsoidalHead { aspect_ratio } => {
+            Some(heads::ellipsoidal_thickness(&mut s, c, *aspect_ratio, Condition::HotCorroded)?)
         }
-        ComponentKind::EllipsoidalHead { aspect_ratio } => Some(heads::ellipsoidal_thickness(
-            &mut s,
-            c,
-            *aspect_ratio,
-            Condition::HotCorroded,
-        )?),
-        ComponentKind::TorisphericalHead {
-            crown_radius,
-            knuckle_radius,
-            ..
-        } => Some(heads::torispherical_thickness(
-            &mut s,
-            *crown_radius,
-            *knuckle_radius,
-            Condition::HotCorroded,
-        )?),
-        ComponentKind::ConicalSection {
-            half_apex_angle, ..
-        } => cone::thickness(&mut s, c, *half_apex_angle, &mut limits)?,
+        ComponentKind::TorisphericalHead { crown_radius, knuckle_radius, .. } => {
+            Some(heads::torispherical_thickness(&mut s, *crown_radius, *knuckle_radius, Condition::HotCorroded)?)
+        }
+        ComponentKind::ConicalSection { half_apex_angle, .. } => {
+            cone::thickness(&mut s, c, *half_apex_angle, &mut limits)?
+        }
     };
     let Some(required) = required else {
         // The rules do not apply (for example a cone steeper than 30°): no
         // thickness or pressure is reported, and the failed applicability
         // check already on the sheet says which rules are needed.
-        return Ok(finish(
-            c,
-            s,
-            None,
-            None,
-            p,
-            static_head,
-            None,
-            None,
-            None,
-            limits,
-        ));
+        return Ok(finish(c, s, None, None, p, static_head, None, None, None, limits));
     };
     if required.value <= 0.0 {
         return Err(CalcError::OutOfRange {
@@ -249,18 +194,17 @@ pub fn evaluate_component(design: &Design, c: &Component) -> Result<ComponentRes
         });
     }
     s.bind("t_r", required);
-    let minimum = s.step(&f::MINIMUM_THICKNESS, "minimum thickness: the larger of the pressure thickness and the floor, plus corrosion and thinning allowances")?;
+    let minimum = s.step(
+        &f::MINIMUM_THICKNESS,
+        "minimum thickness: the larger of the pressure thickness and the floor, plus corrosion and thinning allowances",
+    )?;
 
     // Nominal thickness (given, or selected from the commercial list) and its adequacy.
     let chosen = selection::nominal(&mut s, design, c, minimum)?;
     let nominal = chosen.thickness;
 
     // MAWP hot and corroded, after the shape limits that use the same thickness.
-    let available = if chosen.deducts {
-        &f::AVAILABLE_THICKNESS_MILL
-    } else {
-        &f::AVAILABLE_THICKNESS
-    };
+    let available = if chosen.deducts { &f::AVAILABLE_THICKNESS_MILL } else { &f::AVAILABLE_THICKNESS };
     s.step(available, "thickness available, hot and corroded")?;
     heads::shape_limits(&mut s, c, nominal)?;
     let mawp = component_mawp(&mut s, c, Condition::HotCorroded)?;
@@ -277,11 +221,7 @@ pub fn evaluate_component(design: &Design, c: &Component) -> Result<ComponentRes
     s.input("c", "corrosion allowance, new condition", len(0.0));
     stress::allowable(&mut s, material, Condition::NewCold, "S")?;
     bind_diameter(&mut s, c, Condition::NewCold)?;
-    let new = if chosen.deducts {
-        &f::NEW_THICKNESS_MILL
-    } else {
-        &f::NEW_THICKNESS
-    };
+    let new = if chosen.deducts { &f::NEW_THICKNESS_MILL } else { &f::NEW_THICKNESS };
     s.step(new, "thickness available, new and cold")?;
     let map = component_mawp(&mut s, c, Condition::NewCold)?;
 
@@ -296,18 +236,8 @@ pub fn evaluate_component(design: &Design, c: &Component) -> Result<ComponentRes
     };
     let order = order_item(c, material, nominal, chosen.selected.as_ref(), mv);
 
-    let mut result = finish(
-        c,
-        s,
-        Some(required),
-        Some(minimum),
-        p,
-        static_head,
-        Some(mawp),
-        Some(top),
-        Some(map),
-        limits,
-    );
+    let mut result =
+        finish(c, s, Some(required), Some(minimum), p, static_head, Some(mawp), Some(top), Some(map), limits);
     result.selected_thickness = chosen.selected.map(|k| k.thickness);
     result.mass = mv.mass;
     result.volume = mv.volume;
@@ -332,10 +262,7 @@ fn order_item(
     };
     let cylinder = matches!(c.kind, ComponentKind::Cylinder);
     let (width, length) = match (cylinder, c.is_pipe()) {
-        (true, false) => (
-            c.length.filter(|_| mv.developed_length.is_some()),
-            mv.developed_length,
-        ),
+        (true, false) => (c.length.filter(|_| mv.developed_length.is_some()), mv.developed_length),
         (true, true) => (None, c.length),
         _ => (None, None),
     };
@@ -351,22 +278,14 @@ fn order_item(
 }
 
 /// The MAWP of a component for the thickness bound to `t`.
-fn component_mawp(
-    s: &mut Sheet,
-    c: &Component,
-    condition: Condition,
-) -> Result<Quantity, CalcError> {
+fn component_mawp(s: &mut Sheet, c: &Component, condition: Condition) -> Result<Quantity, CalcError> {
     let q = match &c.kind {
         ComponentKind::Cylinder => shells::cylinder_mawp(s, c, condition)?,
-        ComponentKind::Sphere | ComponentKind::HemisphericalHead => {
-            shells::sphere_mawp(s, c, condition)?
-        }
+        ComponentKind::Sphere | ComponentKind::HemisphericalHead => shells::sphere_mawp(s, c, condition)?,
         ComponentKind::EllipsoidalHead { .. } => heads::ellipsoidal_mawp(s, c, condition)?,
-        ComponentKind::TorisphericalHead {
-            crown_radius,
-            knuckle_radius,
-            ..
-        } => heads::torispherical_mawp(s, *crown_radius, *knuckle_radius, condition)?,
+        ComponentKind::TorisphericalHead { crown_radius, knuckle_radius, .. } => {
+            heads::torispherical_mawp(s, *crown_radius, *knuckle_radius, condition)?
+        }
         ComponentKind::ConicalSection { .. } => cone::mawp(s, c, condition)?,
     };
     // NaN must fail too, so the test is written to be true for it.
@@ -425,21 +344,15 @@ pub fn describe(c: &Component) -> String {
         ComponentKind::Cylinder => "cylindrical shell".to_string(),
         ComponentKind::Sphere => "spherical shell".to_string(),
         ComponentKind::HemisphericalHead => "hemispherical head".to_string(),
-        ComponentKind::EllipsoidalHead { aspect_ratio } => format!(
-            "ellipsoidal head, D/2h = {}",
-            crate::expr::show_number(*aspect_ratio)
-        ),
-        ComponentKind::TorisphericalHead {
-            shape: Some(shape), ..
-        } => format!("torispherical head, {} shape", shape.name()),
+        ComponentKind::EllipsoidalHead { aspect_ratio } => {
+            format!("ellipsoidal head, D/2h = {}", crate::expr::show_number(*aspect_ratio))
+        }
+        ComponentKind::TorisphericalHead { shape: Some(shape), .. } => {
+            format!("torispherical head, {} shape", shape.name())
+        }
         ComponentKind::TorisphericalHead { .. } => "torispherical head".to_string(),
-        ComponentKind::ConicalSection {
-            half_apex_angle, ..
-        } => {
-            format!(
-                "conical section, half-apex angle {}",
-                UnitSystem::Si.display(*half_apex_angle)
-            )
+        ComponentKind::ConicalSection { half_apex_angle, .. } => {
+            format!("conical section, half-apex angle {}", UnitSystem::Si.display(*half_apex_angle))
         }
     }
 }

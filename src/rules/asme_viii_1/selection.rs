@@ -64,26 +64,17 @@ pub fn delivered(s: &mut Sheet, c: &Component) -> Result<Option<Quantity>, CalcE
         (ProductForm::Forging, _) | (ProductForm::Plate, None) => Ok(None),
         (ProductForm::Plate, Some(u)) => {
             let u_q = match u {
-                Undertolerance::Length(q) => {
-                    s.input("u", "stated mill under-tolerance of the plate", q)
-                }
+                Undertolerance::Length(q) => s.input("u", "stated mill under-tolerance of the plate", q),
                 Undertolerance::Fraction(x) => {
                     s.input(
                         "u_p",
                         "stated mill under-tolerance of the plate, as a fraction of the ordered thickness",
                         Quantity::new(x, Kind::Dimensionless),
                     );
-                    s.step(
-                        &f::PLATE_UNDERTOL_FRACTION,
-                        "stated mill under-tolerance of the plate",
-                    )?
+                    s.step(&f::PLATE_UNDERTOL_FRACTION, "stated mill under-tolerance of the plate")?
                 }
             };
-            s.input(
-                "u_c",
-                "fixed part of the UG-16(c) allowance",
-                ug16c_allowance(units),
-            );
+            s.input("u_c", "fixed part of the UG-16(c) allowance", ug16c_allowance(units));
             let lim = s.step(
                 &f::PLATE_UNDERTOL_LIMIT,
                 "under-tolerance that needs no allowance: the smaller of u_c and 6 % of the ordered thickness",
@@ -102,17 +93,10 @@ pub fn delivered(s: &mut Sheet, c: &Component) -> Result<Option<Quantity>, CalcE
                 "t_u",
                 "under-tolerance deducted: all of it, since it exceeds the UG-16(c) allowance",
                 "UG-16(c)",
-                &format!(
-                    "tu = u because u = {} > ulim = {}",
-                    units.display(u_q),
-                    units.display(lim)
-                ),
+                &format!("tu = u because u = {} > ulim = {}", units.display(u_q), units.display(lim)),
                 u_q,
             );
-            Ok(Some(s.step(
-                &f::DELIVERED_THICKNESS,
-                "thickness as delivered, at the under-tolerance",
-            )?))
+            Ok(Some(s.step(&f::DELIVERED_THICKNESS, "thickness as delivered, at the under-tolerance")?))
         }
         (ProductForm::Pipe, u) => {
             match u {
@@ -136,10 +120,7 @@ pub fn delivered(s: &mut Sheet, c: &Component) -> Result<Option<Quantity>, CalcE
                     s.input("t_u", "stated mill under-tolerance of the pipe wall", q);
                 }
             }
-            Ok(Some(s.step(
-                &f::DELIVERED_THICKNESS,
-                "wall as delivered, at the under-tolerance",
-            )?))
+            Ok(Some(s.step(&f::DELIVERED_THICKNESS, "wall as delivered, at the under-tolerance")?))
         }
     }
 }
@@ -150,10 +131,7 @@ fn candidates(design: &Design, c: &Component) -> (Vec<Candidate>, String) {
         if c.is_pipe() {
             return (
                 p.candidates(),
-                format!(
-                    "pipe schedules of NPS {} (wall thicknesses from memory of ASME B36.10M)",
-                    p.nps
-                ),
+                format!("pipe schedules of NPS {} (wall thicknesses from memory of ASME B36.10M)", p.nps),
             );
         }
     }
@@ -162,22 +140,14 @@ fn candidates(design: &Design, c: &Component) -> (Vec<Candidate>, String) {
         .stock
         .thicknesses
         .iter()
-        .map(|t| Candidate {
-            thickness: *t,
-            label: format!("{} {form}", design.units.display(*t)),
-        })
+        .map(|t| Candidate { thickness: *t, label: format!("{} {form}", design.units.display(*t)) })
         .collect();
     (list, design.stock.source.clone())
 }
 
 /// Binds `t_n`: the given nominal thickness with its check, or the selected
 /// commercial thickness with the rejected next thinner one and the check.
-pub fn nominal(
-    s: &mut Sheet,
-    design: &Design,
-    c: &Component,
-    minimum: Quantity,
-) -> Result<Nominal, CalcError> {
+pub fn nominal(s: &mut Sheet, design: &Design, c: &Component, minimum: Quantity) -> Result<Nominal, CalcError> {
     let units = s.units();
     if let Some(t) = c.nominal_thickness {
         s.input("t_n", "nominal thickness", t);
@@ -198,44 +168,23 @@ pub fn nominal(
                 "the nominal thickness less the mill under-tolerance is below the minimum required; choose a thicker plate or schedule",
             ),
         };
-        return Ok(Nominal {
-            thickness: t,
-            deducts: d.is_some(),
-            selected: None,
-        });
+        return Ok(Nominal { thickness: t, deducts: d.is_some(), selected: None });
     }
     let (list, list_name) = candidates(design, c);
     let found = search(&list, minimum.value, &|t| deduction(c, units, t));
     let chosen = found.selected.or(found.thinner);
     let Some(chosen) = chosen else {
-        return Err(CalcError::OutOfRange {
-            component: c.id.clone(),
-            message: "the thickness list is empty".into(),
-        });
+        return Err(CalcError::OutOfRange { component: c.id.clone(), message: "the thickness list is empty".into() });
     };
     if let (Some(_), Some(j)) = (found.selected, found.thinner) {
         let thinner = &list[j];
-        s.input(
-            "t_n",
-            &format!(
-                "candidate {}: the next thinner in the {list_name}",
-                thinner.label
-            ),
-            thinner.thickness,
-        );
+        s.input("t_n", &format!("candidate {}: the next thinner in the {list_name}", thinner.label), thinner.thickness);
         let td = delivered(s, c)?.unwrap_or(thinner.thickness);
         s.record(
             "t_d",
-            &format!(
-                "{} is rejected: its delivered thickness is below the minimum thickness",
-                thinner.label
-            ),
+            &format!("{} is rejected: its delivered thickness is below the minimum thickness", thinner.label),
             "UG-16",
-            &format!(
-                "td = {} < tm = {}",
-                units.display(td),
-                units.display_up(minimum)
-            ),
+            &format!("td = {} < tm = {}", units.display(td), units.display_up(minimum)),
             td,
         );
     }
@@ -246,10 +195,7 @@ pub fn nominal(
             pick.label
         )
     } else {
-        format!(
-            "no thickness in the {list_name} covers the minimum thickness; the thickest, {}, is shown",
-            pick.label
-        )
+        format!("no thickness in the {list_name} covers the minimum thickness; the thickest, {}, is shown", pick.label)
     };
     let t = s.input("t_n", &words, pick.thickness);
     let d = delivered(s, c)?;
@@ -260,9 +206,5 @@ pub fn nominal(
         d.unwrap_or(t),
         "no commercial thickness in the list covers the minimum thickness; extend the list ([stock] plate_thicknesses) or give `nominal_thickness`",
     );
-    Ok(Nominal {
-        thickness: t,
-        deducts: d.is_some(),
-        selected: Some(pick.clone()),
-    })
+    Ok(Nominal { thickness: t, deducts: d.is_some(), selected: Some(pick.clone()) })
 }

@@ -10,32 +10,20 @@ use crate::units::Quantity;
 
 /// Records the allowable stress of `m` for `condition` and binds it under
 /// `symbol` (`S` on component sheets, `S` or `S_t` on the vessel sheet).
-pub fn allowable(
-    s: &mut Sheet,
-    m: &Material,
-    condition: Condition,
-    symbol: &str,
-) -> Result<Quantity, CalcError> {
+pub fn allowable(s: &mut Sheet, m: &Material, condition: Condition, symbol: &str) -> Result<Quantity, CalcError> {
     let (at, given) = match condition {
         Condition::HotCorroded => ("design temperature", m.allowable_stress),
         Condition::NewCold => ("test temperature", m.test_allowable_stress),
     };
     let Some(lib) = &m.library else {
-        return Ok(s.input(
-            symbol,
-            &format!("allowable stress of {} at {at}", m.name),
-            given,
-        ));
+        return Ok(s.input(symbol, &format!("allowable stress of {} at {at}", m.name), given));
     };
     let b = match condition {
         Condition::HotCorroded => lib.design,
         Condition::NewCold => lib.test,
     };
     let table = &lib.material.table;
-    let whence = format!(
-        "table of `{}` in {} (source: {})",
-        lib.material.key, lib.file, table.source
-    );
+    let whence = format!("table of `{}` in {} (source: {})", lib.material.key, lib.file, table.source);
     s.input("T", at, b.temperature);
     if b.exact() {
         return Ok(s.record(
@@ -58,26 +46,10 @@ pub fn allowable(
             lib.material.key
         )
     };
-    s.input(
-        "T_1",
-        &row("lower", "temperature", b.lower),
-        b.lower.temperature,
-    );
-    s.input(
-        "S_1",
-        &row("lower", "allowable stress", b.lower),
-        b.lower.stress,
-    );
-    s.input(
-        "T_2",
-        &row("upper", "temperature", b.upper),
-        b.upper.temperature,
-    );
-    s.input(
-        "S_2",
-        &row("upper", "allowable stress", b.upper),
-        b.upper.stress,
-    );
+    s.input("T_1", &row("lower", "temperature", b.lower), b.lower.temperature);
+    s.input("S_1", &row("lower", "allowable stress", b.lower), b.lower.stress);
+    s.input("T_2", &row("upper", "temperature", b.upper), b.upper.temperature);
+    s.input("S_2", &row("upper", "allowable stress", b.upper), b.upper.stress);
     s.step_as(
         &STRESS_INTERPOLATION,
         symbol,

@@ -11,16 +11,9 @@ use crate::rules::{ComponentResult, VesselResult};
 use crate::units::{Kind, Quantity};
 
 /// Evaluates the vessel from its component results.
-pub fn evaluate(
-    design: &Design,
-    components: &[ComponentResult],
-) -> Result<VesselResult, CalcError> {
+pub fn evaluate(design: &Design, components: &[ComponentResult]) -> Result<VesselResult, CalcError> {
     let mut s = Sheet::new("vessel", design.units);
-    s.input(
-        "P_d",
-        "design pressure at the vessel top",
-        design.conditions.pressure,
-    );
+    s.input("P_d", "design pressure at the vessel top", design.conditions.pressure);
 
     // The lowest MAWP referred to the top governs; components without a MAWP
     // (rules not applicable) cannot govern but make the vessel not acceptable.
@@ -32,11 +25,7 @@ pub fn evaluate(
             }
         }
     }
-    let missing: Vec<&str> = components
-        .iter()
-        .filter(|c| c.mawp_top.is_none())
-        .map(|c| c.id.as_str())
-        .collect();
+    let missing: Vec<&str> = components.iter().filter(|c| c.mawp_top.is_none()).map(|c| c.id.as_str()).collect();
     let (gov_id, mawp) = match governing {
         Some((c, top)) => (c.id.clone(), top),
         None => (String::new(), Quantity::new(0.0, Kind::Pressure)),
@@ -58,20 +47,13 @@ pub fn evaluate(
         s.not_covered(
             "every component has a MAWP",
             "UG-98",
-            &format!(
-                "no MAWP could be established for: {}; the vessel MAWP is not demonstrated",
-                missing.join(", ")
-            ),
+            &format!("no MAWP could be established for: {}; the vessel MAWP is not demonstrated", missing.join(", ")),
         );
     }
 
     // Lowest ratio of allowable stress at test temperature to that at design
     // temperature over the materials used (UG-99(b)).
-    let mut used: Vec<&str> = design
-        .components
-        .iter()
-        .map(|c| c.material.as_str())
-        .collect();
+    let mut used: Vec<&str> = design.components.iter().map(|c| c.material.as_str()).collect();
     used.sort();
     used.dedup();
     let mut lowest: Option<(f64, &str)> = None;
@@ -87,15 +69,8 @@ pub fn evaluate(
         }
     }
     let (ratio, _) = lowest.unwrap_or((1.0, ""));
-    s.input(
-        "LSR",
-        "lowest stress ratio of the materials used",
-        Quantity::new(ratio, Kind::Dimensionless),
-    );
-    let hydro = s.step(
-        &f::HYDROTEST,
-        "minimum hydrostatic test pressure at the top",
-    )?;
+    s.input("LSR", "lowest stress ratio of the materials used", Quantity::new(ratio, Kind::Dimensionless));
+    let hydro = s.step(&f::HYDROTEST, "minimum hydrostatic test pressure at the top")?;
     let pneu = s.step(&f::PNEUMATIC, "minimum pneumatic test pressure at the top")?;
     let totals = totals(&mut s, design, components)?;
     let acceptable = s.checks.iter().all(|k| k.pass);
@@ -147,42 +122,14 @@ fn running_total(
     Ok(Some(sum))
 }
 
-fn totals(
-    s: &mut Sheet,
-    design: &Design,
-    components: &[ComponentResult],
-) -> Result<Totals, CalcError> {
-    let masses: Vec<(&str, Quantity)> = components
-        .iter()
-        .filter_map(|c| c.mass.map(|m| (c.id.as_str(), m)))
-        .collect();
-    let volumes: Vec<(&str, Quantity)> = components
-        .iter()
-        .filter_map(|c| c.volume.map(|v| (c.id.as_str(), v)))
-        .collect();
-    let exclude: Vec<String> = components
-        .iter()
-        .filter(|c| c.mass.is_none() || c.volume.is_none())
-        .map(|c| c.id.clone())
-        .collect();
-    let mass = running_total(
-        s,
-        &masses,
-        "m_e",
-        "m_0",
-        "m_k",
-        &f::RUNNING_MASS,
-        "empty mass",
-    )?;
-    let volume = running_total(
-        s,
-        &volumes,
-        "V_v",
-        "V_0",
-        "V_k",
-        &f::RUNNING_VOLUME,
-        "inside volume",
-    )?;
+fn totals(s: &mut Sheet, design: &Design, components: &[ComponentResult]) -> Result<Totals, CalcError> {
+    let masses: Vec<(&str, Quantity)> = components.iter().filter_map(|c| c.mass.map(|m| (c.id.as_str(), m))).collect();
+    let volumes: Vec<(&str, Quantity)> =
+        components.iter().filter_map(|c| c.volume.map(|v| (c.id.as_str(), v))).collect();
+    let exclude: Vec<String> =
+        components.iter().filter(|c| c.mass.is_none() || c.volume.is_none()).map(|c| c.id.clone()).collect();
+    let mass = running_total(s, &masses, "m_e", "m_0", "m_k", &f::RUNNING_MASS, "empty mass")?;
+    let volume = running_total(s, &volumes, "V_v", "V_0", "V_k", &f::RUNNING_VOLUME, "inside volume")?;
     let liquid_mass = match (volume, design.conditions.liquid_density) {
         (Some(_), Some(rho)) => {
             s.input("rho", "liquid density", rho);
@@ -190,10 +137,5 @@ fn totals(
         }
         _ => None,
     };
-    Ok(Totals {
-        mass,
-        volume,
-        liquid_mass,
-        exclude,
-    })
+    Ok(Totals { mass, volume, liquid_mass, exclude })
 }

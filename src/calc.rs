@@ -154,27 +154,19 @@ impl Sheet {
         q
     }
 
-    /// Records a value chosen from earlier results (a minimum over
-    /// components, say) with the rule of choice written out in `formula` and
-    /// the values compared in `substituted`.
-    pub fn derived(
-        &mut self,
-        symbol: &str,
-        description: &str,
-        clause: &str,
-        formula: &str,
-        substituted: &str,
-        q: Quantity,
-    ) -> Quantity {
+    /// Records a value taken from a table or decided by a rule rather than
+    /// computed by a formula (a Table UW-12 look-up, the choice of a
+    /// commercial thickness), with the clause and the reasoning in `formula`,
+    /// and binds it under `symbol`.
+    pub fn record(&mut self, symbol: &str, description: &str, clause: &str, formula: &str, q: Quantity) -> Quantity {
         self.env.insert(symbol.to_string(), q);
-        let shown = expr::display_symbol(symbol);
         self.steps.push(Step {
-            symbol: shown.clone(),
+            symbol: expr::display_symbol(symbol),
             description: description.to_string(),
             clause: clause.to_string(),
             formula_id: None,
-            formula: format!("{shown} = {formula}"),
-            substituted: format!("{shown} = {substituted}"),
+            formula: formula.to_string(),
+            substituted: String::new(),
             quantity: q,
         });
         q

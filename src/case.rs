@@ -54,6 +54,17 @@ pub struct CaseFile {
     /// `[[component]]`, in vessel order.
     #[serde(default)]
     pub component: Vec<Spanned<RawComponent>>,
+    /// `[stock]`: commercial thickness lists replacing the defaults.
+    #[serde(default)]
+    pub stock: Option<Spanned<RawStock>>,
+}
+
+/// `[stock]`.
+#[derive(Debug, Clone, Deserialize)]
+#[serde(deny_unknown_fields)]
+pub struct RawStock {
+    /// Plate thicknesses to select from, replacing the default list.
+    pub plate_thicknesses: Option<Spanned<Vec<Value>>>,
 }
 
 /// `[document]`.
@@ -118,6 +129,8 @@ pub struct RawDesign {
     pub corrosion_allowance: Option<Value>,
     /// Liquid density for static head.
     pub liquid_density: Option<Value>,
+    /// Test temperature (for allowable stresses looked up in a library).
+    pub test_temperature: Option<Value>,
 }
 
 /// `[materials.<key>]`.
@@ -132,6 +145,12 @@ pub struct RawMaterial {
     pub test_allowable_stress: Option<Value>,
     /// Density of the metal, for masses.
     pub density: Option<Value>,
+    /// Library file, relative to the case file.
+    pub library: Option<Spanned<String>>,
+    /// Material key in the library file.
+    pub entry: Option<Spanned<String>>,
+    /// Product form (`plate`, `pipe`, `forging`) of a material given directly.
+    pub product_form: Option<Spanned<String>>,
 }
 
 /// `[[component]]`: every key any component type may take; the model stage
@@ -156,6 +175,14 @@ pub struct RawComponent {
     pub joint_efficiency: Option<Value>,
     /// Joint efficiency of circumferential joints (cylinders, longitudinal stress).
     pub circumferential_joint_efficiency: Option<Value>,
+    /// Joint type of Table UW-12 (1 to 6), instead of `joint_efficiency`.
+    pub joint_type: Option<Value>,
+    /// Extent of radiography: `full`, `spot` or `none`.
+    pub radiography: Option<Spanned<String>>,
+    /// A seamless shell or head (UW-12(d)).
+    pub seamless: Option<Spanned<bool>>,
+    /// Mill under-tolerance: a length, or a percentage of the nominal thickness (`"12.5 %"`).
+    pub mill_undertolerance: Option<Value>,
     /// Static liquid head at the component's lowest point.
     pub liquid_head: Option<Value>,
     /// Length (cylinders, cones).

@@ -294,8 +294,8 @@ impl Expr {
                         let value = if *op == Op::Add { x.value + y.value } else { x.value - y.value };
                         DimValue { value, dim: x.dim }
                     }
-                    Op::Mul => DimValue { value: x.value * y.value, dim: x.dim.times(y.dim) },
-                    Op::Div => DimValue { value: x.value / y.value, dim: x.dim.per(y.dim) },
+                    Op::Mul => DimValue { value: x.value * y.value, dim: x.dim.mul(y.dim) },
+                    Op::Div => DimValue { value: x.value / y.value, dim: x.dim.div(y.dim) },
                     Op::Pow => {
                         let n = y.value;
                         let dim = if x.dim == Dim::NONE {

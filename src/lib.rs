@@ -12,6 +12,10 @@
 //! | package (digest, manifest) | [`package::Package`] | [`package`] |
 //! | Markdown, PDF, SVG | bytes | [`render`] |
 //! | figures | [`drawing::Drawing`] | [`drawing`] |
+//!
+//! Beside the stages: [`materials`] (library files and their stress tables,
+//! read through [`pipeline::SourceLoader`]), [`joints`] (Table UW-12) and
+//! [`stock`] (commercial plate and pipe thicknesses).
 
 pub mod calc;
 pub mod case;
@@ -21,12 +25,13 @@ pub mod diag;
 pub mod drawing;
 pub mod expr;
 pub mod fsio;
-pub mod geometry;
-pub mod inspection;
+pub mod joints;
+pub mod materials;
 pub mod model;
 pub mod package;
 pub mod pipeline;
 pub mod render;
 pub mod results;
 pub mod rules;
+pub mod stock;
 pub mod units;

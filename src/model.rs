@@ -5,8 +5,15 @@
 //! every rule set can evaluate without meeting an invalid value, or returns
 //! all input errors it found, each pointing at its key in the file.
 
+mod construction;
+
+pub use construction::Libraries;
+
 use crate::case::{CaseFile, RawComponent, Scalar, Value};
 use crate::diag::{Diagnostic, InputErrors};
+use crate::joints::Joint;
+use crate::materials::{Bracket, LibraryMaterial, ProductForm};
+use crate::stock::PipeSize;
 use crate::units::{parse_quantity, Kind, Quantity, QuantityError, UnitSystem};
 use serde::Serialize;
 use std::collections::BTreeMap;
@@ -18,6 +25,13 @@ pub const RULE_SETS: &[&str] = &["asme-viii-1"];
 
 /// Carbon steel density used when a material gives none, kg/m³ (common practice, no source).
 pub const DEFAULT_STEEL_DENSITY: f64 = 7850.0;
+
+/// Test temperature used when `[design] test_temperature` is not given, °C:
+/// shop hydrostatic tests are usually run near room temperature, and 20 °C
+/// (68 °F) lies inside the first row ("-20 to 100 °F", "-30 to 40 °C") of
+/// the usual stress tables (common practice, no source). The same value is
+/// used whatever the report units, so SI and US cases give the same results.
+pub const DEFAULT_TEST_TEMPERATURE: f64 = 20.0;
 
 /// A validated design: the input of every rule set.
 #[derive(Debug, Clone, PartialEq, Serialize)]
@@ -34,6 +48,17 @@ pub struct Design {
     pub components: Vec<Component>,
     /// Report unit system.
     pub units: UnitSystem,
+    /// The plate thicknesses a nominal thickness is selected from.
+    pub stock: PlateStock,
+}
+
+/// The list plate (and forging) thicknesses are selected from.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct PlateStock {
+    /// Thicknesses, thinnest first.
+    pub thicknesses: Vec<Quantity>,
+    /// Where the list comes from, in words.
+    pub source: String,
 }
 
 /// Document identity and history.
@@ -90,6 +115,8 @@ pub struct Conditions {
     pub corrosion_allowance: Quantity,
     /// Liquid density for static head, when given.
     pub liquid_density: Option<Quantity>,
+    /// Test temperature (given, or [`DEFAULT_TEST_TEMPERATURE`]).
+    pub test_temperature: Quantity,
 }
 
 /// A material with its allowable stresses.
@@ -105,6 +132,46 @@ pub struct Material {
     pub test_allowable_stress: Quantity,
     /// Metal density.
     pub density: Quantity,
+    /// Product form: plate unless stated, or as the library gives it.
+    pub product_form: ProductForm,
+    /// The library look-ups, when the material is taken from a library.
+    pub library: Option<LibraryLookup>,
+}
+
+/// A material taken from a library, with the table rows that bracket the
+/// design and test temperatures. The rules record the interpolation as steps.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct LibraryLookup {
+    /// The library file as shown in messages.
+    pub file: String,
+    /// The library's caution, carried into every output that uses it.
+    pub caution: Option<String>,
+    /// The library entry.
+    pub material: LibraryMaterial,
+    /// The rows bracketing the design temperature.
+    pub design: Bracket,
+    /// The rows bracketing the test temperature.
+    pub test: Bracket,
+}
+
+/// A stated mill under-tolerance.
+#[derive(Debug, Clone, Copy, PartialEq, Serialize)]
+#[serde(tag = "basis", content = "value", rename_all = "kebab-case")]
+pub enum Undertolerance {
+    /// A fixed amount.
+    Length(Quantity),
+    /// A fraction of the nominal thickness (0.125 for 12.5 %).
+    Fraction(f64),
+}
+
+impl Undertolerance {
+    /// The amount for a nominal thickness `t` (SI value).
+    pub fn amount(&self, t: f64) -> f64 {
+        match self {
+            Undertolerance::Length(q) => q.value,
+            Undertolerance::Fraction(f) => f * t,
+        }
+    }
 }
 
 /// How the component's diameter was given.
@@ -254,8 +321,16 @@ pub struct Component {
     pub diameter: Diameter,
     /// Nominal thickness, when given.
     pub nominal_thickness: Option<Quantity>,
-    /// Joint efficiency E.
+    /// Joint efficiency E (given, or looked up from `joint`).
     pub joint_efficiency: f64,
+    /// The joint description E was looked up from, when given that way.
+    pub joint: Option<Joint>,
+    /// Product form of the material.
+    pub product_form: ProductForm,
+    /// Stated mill under-tolerance, when given.
+    pub mill_undertolerance: Option<Undertolerance>,
+    /// The pipe size of a cylinder made from pipe, when its outside diameter matches one.
+    pub pipe_size: Option<PipeSize>,
     /// Joint efficiency of circumferential joints (cylinders).
     pub circumferential_joint_efficiency: f64,
     /// Static liquid head at the lowest point (zero when none).
@@ -465,8 +540,15 @@ impl Design {
         })
     }
 
-    /// Validates a parsed case file, returning every problem found.
+    /// Validates a parsed case file that names no library, returning every
+    /// problem found.
     pub fn from_case(case: &CaseFile) -> Result<Design, Vec<Diagnostic>> {
+        Design::from_case_with_libraries(case, &Libraries::new())
+    }
+
+    /// Validates a parsed case file with the libraries it names (parsed by
+    /// the caller, keyed by the path as written), returning every problem found.
+    pub fn from_case_with_libraries(case: &CaseFile, libraries: &Libraries) -> Result<Design, Vec<Diagnostic>> {
         let mut r = Reader { errors: Vec::new() };
         let doc = case.document.get_ref();
         let doc_span = span_of(&case.document);
@@ -595,39 +677,43 @@ impl Design {
         };
         let liquid_density =
             d.liquid_density.as_ref().and_then(|v| r.positive("design.liquid_density", v, Kind::Density));
+        let test_temperature = match &d.test_temperature {
+            Some(v) => r.quantity("design.test_temperature", v, Kind::Temperature).map(|q| construction::Temperature {
+                value: q,
+                key: "design.test_temperature",
+                span: span_of(v),
+                written: v.get_ref().as_written(),
+            }),
+            None => Some(construction::Temperature {
+                value: Quantity::new(DEFAULT_TEST_TEMPERATURE, Kind::Temperature),
+                key: "design.test_temperature",
+                span: None,
+                written: "20 degC".to_string(),
+            }),
+        };
+        let design_temperature = match (temperature, &d.temperature) {
+            (Some(q), Some(v)) => Some(construction::Temperature {
+                value: q,
+                key: "design.temperature",
+                span: span_of(v),
+                written: v.get_ref().as_written(),
+            }),
+            _ => None,
+        };
 
         // Materials.
         let mut materials = BTreeMap::new();
         for (key, m) in &case.materials {
-            let span = span_of(m);
-            let m = m.get_ref();
-            let k = |f: &str| format!("materials.{key}.{f}");
-            let name = r
-                .required(&k("name"), &m.name, span.clone(), "the specification and grade, e.g. \"SA-516 Grade 70\"")
-                .map(|s| s.get_ref().clone());
-            let s = r
-                .required(
-                    &k("allowable_stress"),
-                    &m.allowable_stress,
-                    span.clone(),
-                    "the allowable stress at design temperature, e.g. \"138 MPa\"",
-                )
-                .and_then(|v| r.positive(&k("allowable_stress"), v, Kind::Stress));
-            let st = match &m.test_allowable_stress {
-                Some(v) => r.positive(&k("test_allowable_stress"), v, Kind::Stress),
-                None => s,
+            let Some(test_t) = &test_temperature else {
+                break;
             };
-            let rho = match &m.density {
-                Some(v) => r.positive(&k("density"), v, Kind::Density),
-                None => Some(Quantity::new(DEFAULT_STEEL_DENSITY, Kind::Density)),
-            };
-            if let (Some(name), Some(s), Some(st), Some(rho)) = (name, s, st, rho) {
-                materials.insert(
-                    key.clone(),
-                    Material { key: key.clone(), name, allowable_stress: s, test_allowable_stress: st, density: rho },
-                );
+            if let Some(mat) =
+                construction::read_material(&mut r, key, m, libraries, design_temperature.as_ref(), test_t)
+            {
+                materials.insert(key.clone(), mat);
             }
         }
+        let stock = construction::read_stock(&mut r, case, units);
 
         // Components.
         if case.component.is_empty() {
@@ -641,9 +727,16 @@ impl Design {
         let mut seen: BTreeMap<String, ()> = BTreeMap::new();
         for (i, c) in case.component.iter().enumerate() {
             let span = span_of(c);
-            if let Some(comp) =
-                read_component(&mut r, i, c.get_ref(), span, &case.materials, corrosion, liquid_density.is_some())
-            {
+            if let Some(comp) = read_component(
+                &mut r,
+                i,
+                c.get_ref(),
+                span,
+                &case.materials,
+                &materials,
+                corrosion,
+                liquid_density.is_some(),
+            ) {
                 if seen.insert(comp.id.clone(), ()).is_some() {
                     let s = c.get_ref().id.as_ref().map(span_of).unwrap_or(None);
                     r.err(
@@ -665,8 +758,15 @@ impl Design {
             return Err(r.errors);
         }
         // Every Option below is Some when no error was recorded.
-        let (Some(number), Some(revision), Some(date), Some(pressure), Some(temperature), Some(corrosion)) =
-            (number, revision, date, pressure, temperature, corrosion)
+        let (
+            Some(number),
+            Some(revision),
+            Some(date),
+            Some(pressure),
+            Some(temperature),
+            Some(corrosion),
+            Some(test_temperature),
+        ) = (number, revision, date, pressure, temperature, corrosion, test_temperature)
         else {
             return Err(vec![Diagnostic::new("", None, "incomplete case file")]);
         };
@@ -682,10 +782,17 @@ impl Design {
                 history,
             },
             sign_off,
-            conditions: Conditions { pressure, temperature, corrosion_allowance: corrosion, liquid_density },
+            conditions: Conditions {
+                pressure,
+                temperature,
+                corrosion_allowance: corrosion,
+                liquid_density,
+                test_temperature: test_temperature.value,
+            },
             materials,
             components,
             units,
+            stock,
         })
     }
 
@@ -729,12 +836,14 @@ fn type_specific_keys(c: &RawComponent) -> Vec<(&'static str, Option<Range<usize
     v
 }
 
+#[allow(clippy::too_many_arguments)]
 fn read_component(
     r: &mut Reader,
     i: usize,
     c: &RawComponent,
     span: Option<Range<usize>>,
     materials: &BTreeMap<String, Spanned<crate::case::RawMaterial>>,
+    validated: &BTreeMap<String, Material>,
     default_ca: Option<Quantity>,
     have_density: bool,
 ) -> Option<Component> {
@@ -875,15 +984,14 @@ fn read_component(
         }
         Some(q.value)
     };
-    let e = match r.required(
-        &k("joint_efficiency"),
-        &c.joint_efficiency,
-        span.clone(),
-        "the joint efficiency E, e.g. 0.85 (UW-12)",
-    ) {
-        Some(v) => efficiency(r, &k("joint_efficiency"), v)
-            .inspect(|e| echo("joint_efficiency", v, Quantity::new(*e, Kind::Dimensionless))),
-        None => None,
+    let (e, joint) = match construction::read_joint(r, i, c, span.clone()) {
+        Some(construction::JointInput::Given(v)) => (
+            efficiency(r, &k("joint_efficiency"), v)
+                .inspect(|e| echo("joint_efficiency", v, Quantity::new(*e, Kind::Dimensionless))),
+            None,
+        ),
+        Some(construction::JointInput::Described(j, e)) => (Some(e), Some(j)),
+        None => (None, None),
     };
     let e_circ = match &c.circumferential_joint_efficiency {
         Some(v) => efficiency(r, &k("circumferential_joint_efficiency"), v)
@@ -916,6 +1024,11 @@ fn read_component(
         Some(v) => r.non_negative(&k("straight_flange"), v, Kind::Length).inspect(|q| echo("straight_flange", v, *q)),
         None => Some(Quantity::mm(0.0)),
     };
+
+    let product_form = construction::product_form_of(material.as_ref(), validated);
+    let undertolerance = construction::read_undertolerance(r, i, c, product_form);
+    let pipe_size =
+        construction::read_pipe_size(r, i, c, span.clone(), product_form, &kind_name, diameter, nominal.is_some());
 
     let kind = match kind_name.as_str() {
         "cylinder" => Some(ComponentKind::Cylinder),
@@ -955,6 +1068,10 @@ fn read_component(
         diameter: diameter?,
         nominal_thickness: nominal,
         joint_efficiency: e?,
+        joint,
+        product_form,
+        mill_undertolerance: undertolerance?,
+        pipe_size: pipe_size?,
         circumferential_joint_efficiency: e_circ?,
         liquid_head: head?,
         length,

@@ -8,7 +8,7 @@
 use crate::calc::{Check, Step};
 use crate::cautions;
 use crate::model::Design;
-use crate::rules::{Calculation, ComponentResult};
+use crate::rules::{Calculation, ComponentResult, OrderItem};
 use crate::units::{Kind, Quantity};
 use serde_json::{json, Map, Value};
 
@@ -66,6 +66,46 @@ fn check_json(c: &Check) -> Value {
     })
 }
 
+fn order_json(o: &OrderItem) -> Value {
+    json!({
+        "component": o.component,
+        "material": o.material,
+        "product_form": o.product_form,
+        "thickness": num(Some(o.thickness)),
+        "ordered_as": o.ordered_as,
+        "blank_width": num(o.blank_width),
+        "blank_length": num(o.blank_length),
+    })
+}
+
+fn materials_json(design: &Design) -> Value {
+    let list: Vec<Value> = design
+        .materials
+        .values()
+        .map(|m| {
+            let library = m.library.as_ref().map(|l| {
+                json!({
+                    "file": l.file,
+                    "entry": l.material.key,
+                    "caution": l.caution,
+                    "table_source": l.material.table.source,
+                    "table_range": l.material.table.range_text(),
+                })
+            });
+            json!({
+                "key": m.key,
+                "name": m.name,
+                "product_form": m.product_form.name(),
+                "allowable_stress": num(Some(m.allowable_stress)),
+                "test_allowable_stress": num(Some(m.test_allowable_stress)),
+                "density": num(Some(m.density)),
+                "library": library,
+            })
+        })
+        .collect();
+    Value::Array(list)
+}
+
 fn status(ok: bool) -> &'static str {
     if ok {
         "acceptable"
@@ -82,6 +122,10 @@ fn component_json(c: &ComponentResult, extra: Option<&Map<String, Value>>) -> Va
         "required_thickness": num(c.required_thickness),
         "minimum_thickness": num(c.minimum_thickness),
         "nominal_thickness": num(c.nominal_thickness),
+        "selected_thickness": num(c.selected_thickness),
+        "mass": num(c.mass),
+        "volume": num(c.volume),
+        "order": c.order.as_ref().map(order_json),
         "design_pressure": num(Some(c.design_pressure)),
         "static_head": num(Some(c.static_head)),
         "mawp": num(c.mawp),
@@ -186,7 +230,9 @@ pub fn results_json(
             "temperature": num(Some(design.conditions.temperature)),
             "corrosion_allowance": num(Some(design.conditions.corrosion_allowance)),
             "liquid_density": num(design.conditions.liquid_density),
+            "test_temperature": num(Some(design.conditions.test_temperature)),
         },
+        "materials": materials_json(design),
         "status": status(calc.acceptable()),
         "components": calc.components.iter().map(|c| component_json(c, extra.get(&c.id))).collect::<Vec<_>>(),
         "vessel": {
@@ -195,6 +241,11 @@ pub fn results_json(
             "stress_ratio": v.stress_ratio,
             "hydrotest_pressure": num(Some(v.hydrotest_pressure)),
             "pneumatic_test_pressure": num(Some(v.pneumatic_test_pressure)),
+            "empty_mass": num(v.empty_mass),
+            "volume": num(v.volume),
+            "liquid_mass": num(v.liquid_mass),
+            "totals_exclude": v.totals_exclude,
+            "order_list": v.order_list.iter().map(order_json).collect::<Vec<_>>(),
             "status": status(calc.acceptable()),
             "steps": v.steps.iter().map(step_json).collect::<Vec<_>>(),
             "checks": v.checks.iter().map(check_json).collect::<Vec<_>>(),

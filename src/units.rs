@@ -51,11 +51,17 @@ impl Dim {
         Dim { mass, length, time, temperature }
     }
     /// Product of two dimensions.
-    pub fn times(self, o: Dim) -> Dim {
+    // A plain method rather than the operator trait: dimensions combine by
+    // adding exponents, which the `Mul` trait would hide.
+    #[allow(clippy::should_implement_trait)]
+    pub fn mul(self, o: Dim) -> Dim {
         Dim::new(self.mass + o.mass, self.length + o.length, self.time + o.time, self.temperature + o.temperature)
     }
     /// Quotient of two dimensions.
-    pub fn per(self, o: Dim) -> Dim {
+    // A plain method rather than the operator trait: dimensions combine by
+    // adding exponents, which the `Div` trait would hide.
+    #[allow(clippy::should_implement_trait)]
+    pub fn div(self, o: Dim) -> Dim {
         Dim::new(self.mass - o.mass, self.length - o.length, self.time - o.time, self.temperature - o.temperature)
     }
     /// Integer power of a dimension.

@@ -1,7 +1,7 @@
 //! `knuckle check CASE [--json]`: evaluate and print.
 
 use super::{read_case, EXIT_INPUT, EXIT_NOT_ACCEPTABLE, EXIT_OK};
-use crate::pipeline::{evaluate, Evaluated};
+use crate::pipeline::{evaluate_with, Evaluated, FsLoader};
 use crate::units::UnitSystem;
 use std::path::PathBuf;
 
@@ -22,7 +22,7 @@ pub fn run(a: &CheckArgs) -> i32 {
         Err(code) => return code,
     };
     let file = a.case.display().to_string();
-    let ev = match evaluate(&file, &source) {
+    let ev = match evaluate_with(&file, &source, &FsLoader::beside(&a.case)) {
         Ok(ev) => ev,
         Err(e) => {
             eprint!("{}", e.render());
@@ -85,7 +85,11 @@ pub fn summary_text(ev: &Evaluated) -> String {
             r.type_name.clone(),
             opt(u, r.required_thickness, true),
             opt(u, r.minimum_thickness, true),
-            r.nominal_thickness.map(|t| opt(u, Some(t), true)).unwrap_or_else(|| "not given".into()),
+            match (r.nominal_thickness, r.selected_thickness) {
+                (Some(t), _) => opt(u, Some(t), true),
+                (None, Some(t)) => format!("{} sel.", opt(u, Some(t), true)),
+                (None, None) => "not given".into(),
+            },
             opt(u, r.mawp, false),
             if r.acceptable { "acceptable".into() } else { "NOT ACCEPTABLE".into() },
         ]);
@@ -121,6 +125,47 @@ pub fn summary_text(ev: &Evaluated) -> String {
     ));
     out.push_str(&format!("hydrostatic test, UG-99(b)   {}\n", u.display_up(v.hydrotest_pressure)));
     out.push_str(&format!("pneumatic test, UG-100       {}\n", u.display_up(v.pneumatic_test_pressure)));
+    if let Some(m) = v.empty_mass {
+        out.push_str(&format!(
+            "empty mass                   {}{}\n",
+            u.display(m),
+            if v.totals_exclude.is_empty() {
+                String::new()
+            } else {
+                format!(" (without {})", v.totals_exclude.join(", "))
+            }
+        ));
+    }
+    if let Some(vol) = v.volume {
+        out.push_str(&format!("inside volume                {}\n", u.display(vol)));
+    }
+    if let Some(m) = v.liquid_mass {
+        out.push_str(&format!("liquid mass when full        {}\n", u.display(m)));
+    }
+    if !v.order_list.is_empty() {
+        out.push_str("\norder list:\n");
+        for o in &v.order_list {
+            let blank = match (o.blank_width, o.blank_length) {
+                (Some(w), Some(l)) => format!(", blank {} × {}", u.display(w), u.display(l)),
+                (None, Some(l)) => format!(", length {}", u.display(l)),
+                _ => String::new(),
+            };
+            let thickness = u.display(o.thickness);
+            let what = if o.ordered_as.contains(&thickness) {
+                o.ordered_as.clone()
+            } else {
+                format!("{} ({thickness})", o.ordered_as)
+            };
+            out.push_str(&format!("  {}: {}, {what}{blank}\n", o.component, o.material));
+        }
+    }
+    let cautions = crate::cautions::data(d, c);
+    if !cautions.is_empty() {
+        out.push_str("\ncautions:\n");
+        for k in cautions {
+            out.push_str(&format!("  {k}\n"));
+        }
+    }
     let failed = c.failed_checks();
     if !failed.is_empty() {
         out.push_str("\nfailed checks:\n");

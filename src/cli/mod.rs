@@ -5,9 +5,7 @@
 //! (or a verification failed), 2 an input or usage error (nothing written).
 
 mod check;
-pub mod compile;
-mod heads;
-mod inspect;
+mod materials;
 mod starter;
 pub mod verify;
 
@@ -48,6 +46,8 @@ enum Command {
     },
     /// Print the JSON Schema of the case file.
     Schema,
+    /// List the materials of a library, or show one with its stress table.
+    Materials(materials::MaterialsArgs),
 }
 
 /// Runs the command line and returns the exit status.
@@ -67,6 +67,7 @@ pub fn run(args: Vec<OsString>) -> i32 {
         Command::Heads(a) => heads::run(&a),
         Command::InspectHead(a) => inspect::run(&a),
         Command::New { path } => starter::write_new(&path),
+        Command::Materials(a) => materials::run(&a),
         Command::Schema => {
             println!("{}", starter::schema_text());
             EXIT_OK

@@ -102,9 +102,34 @@ pub struct ComponentResult {
     pub limits: Vec<String>,
     /// All checks pass.
     pub acceptable: bool,
-    /// Geometry of formed heads and cones (depth, volume, area, blank, mass,
-    /// deviation from a reference ellipse).
-    pub geometry: Option<crate::geometry::component::ComponentGeometry>,
+    /// The commercial thickness selected when no nominal thickness was given.
+    pub selected_thickness: Option<Quantity>,
+    /// Empty mass at the nominal (or selected) thickness, when known.
+    pub mass: Option<Quantity>,
+    /// Inside volume, when known.
+    pub volume: Option<Quantity>,
+    /// What to order for this component.
+    pub order: Option<OrderItem>,
+}
+
+/// One line of the plate and pipe order list.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct OrderItem {
+    /// Component id.
+    pub component: String,
+    /// Material name (specification and grade).
+    pub material: String,
+    /// Product form (`plate`, `pipe`, `forging`).
+    pub product_form: String,
+    /// Nominal (ordered) thickness.
+    pub thickness: Quantity,
+    /// How it is ordered (`12 mm plate`, `NPS 8 Sch 40`).
+    pub ordered_as: String,
+    /// Blank width (for a rolled cylinder: its length), when known.
+    pub blank_width: Option<Quantity>,
+    /// Blank length (for a rolled cylinder: the developed length on the mean
+    /// diameter; for pipe: the length to cut), when known.
+    pub blank_length: Option<Quantity>,
 }
 
 /// Vessel-level results.
@@ -126,4 +151,14 @@ pub struct VesselResult {
     pub pneumatic_test_pressure: Quantity,
     /// All vessel checks pass.
     pub acceptable: bool,
+    /// Empty mass of the components whose mass is known.
+    pub empty_mass: Option<Quantity>,
+    /// Inside volume of the components whose volume is known.
+    pub volume: Option<Quantity>,
+    /// Mass of the liquid filling that volume, when a liquid density is given.
+    pub liquid_mass: Option<Quantity>,
+    /// Components left out of the mass and volume totals (not known in this build).
+    pub totals_exclude: Vec<String>,
+    /// The plate and pipe order list, in vessel order.
+    pub order_list: Vec<OrderItem>,
 }

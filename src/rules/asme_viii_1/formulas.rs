@@ -165,6 +165,43 @@ formula!(STRESS_RATIO, "test-stress-ratio", "LSR", "UG-99(b)", "S_t/S", Dimensio
 formula!(HYDROTEST, "hydrostatic-test", "P_h", "UG-99(b)", "1.3*P_v*LSR", Pressure);
 formula!(PNEUMATIC, "pneumatic-test", "P_pn", "UG-100", "1.1*P_v*LSR", Pressure);
 
+// Allowable stress from a library table (defined beside the tables).
+pub use crate::materials::STRESS_INTERPOLATION;
+
+// Mill under-tolerance and the delivered thickness.
+formula!(PLATE_UNDERTOL_FRACTION, "plate-undertolerance-from-fraction", "u", "UG-16(c)", "u_p*t_n", Length);
+formula!(PLATE_UNDERTOL_LIMIT, "plate-undertolerance-allowance", "u_lim", "UG-16(c)", "min(u_c, 0.06*t_n)", Length);
+formula!(PIPE_UNDERTOL, "pipe-undertolerance", "t_u", "UG-16(d)", "u_p*t_n", Length);
+formula!(DELIVERED_THICKNESS, "delivered-thickness", "t_d", "UG-16(c), UG-16(d)", "t_n - t_u", Length);
+formula!(
+    AVAILABLE_THICKNESS_MILL,
+    "available-thickness-less-undertolerance",
+    "t",
+    "UG-16(d), UG-25",
+    "t_n - t_u - c - t_th",
+    Length
+);
+formula!(NEW_THICKNESS_MILL, "new-thickness-less-undertolerance", "t", "UG-16(d), UG-81", "t_n - t_u - t_th", Length);
+
+// Mass, volume and blank sizes (new condition, nominal thickness).
+formula!(MEAN_DIAMETER_IN, "mean-diameter-from-inside", "D_m", "derived", "D_n + t_n", Length);
+formula!(MEAN_DIAMETER_OUT, "mean-diameter-from-outside", "D_m", "derived", "D_o - t_n", Length);
+formula!(NEW_INSIDE_DIAMETER, "new-inside-diameter", "D_i", "derived", "D_o - 2*t_n", Length);
+formula!(CYL_MASS, "cylinder-mass", "m", "derived", "rho_m*pi*D_m*t_n*L_s", Mass);
+formula!(CYL_VOLUME, "cylinder-volume", "V", "derived", "pi*D_i^2*L_s/4", Volume);
+formula!(DEVELOPED_LENGTH, "developed-length", "L_dev", "derived", "pi*D_m", Length);
+formula!(SPH_MASS, "sphere-mass", "m", "derived", "rho_m*pi*((D_i + 2*t_n)^3 - D_i^3)/6", Mass);
+formula!(SPH_VOLUME, "sphere-volume", "V", "derived", "pi*D_i^3/6", Volume);
+formula!(CONE_NEW_INSIDE, "cone-new-inside-diameter", "D_i", "derived", "D_o - 2*t_n/cos(alpha)", Length);
+formula!(CONE_NEW_INSIDE_SMALL, "cone-new-inside-diameter-small", "D_2i", "derived", "D_2o - 2*t_n/cos(alpha)", Length);
+formula!(CONE_AXIAL_LENGTH, "cone-axial-length", "L_s", "derived", "(D_i - D_2i)/(2*tan(alpha))", Length);
+formula!(CONE_MASS, "cone-mass", "m", "derived", "rho_m*pi*((D_i + D_2i)/2 + t_n/cos(alpha))*t_n*L_s/cos(alpha)", Mass);
+formula!(CONE_VOLUME, "cone-volume", "V", "derived", "pi*L_s*(D_i^2 + D_i*D_2i + D_2i^2)/12", Volume);
+formula!(HEAD_MASS, "head-mass", "m", "derived", "rho_m*V_m", Mass);
+formula!(RUNNING_MASS, "vessel-empty-mass", "m_e", "derived", "m_0 + m_k", Mass);
+formula!(RUNNING_VOLUME, "vessel-volume", "V_v", "derived", "V_0 + V_k", Volume);
+formula!(LIQUID_MASS, "liquid-mass", "m_l", "derived", "rho*V_v", Mass);
+
 /// Every formula above, for tests and the documentation.
 pub static ALL: &[&Formula] = &[
     &STATIC_HEAD,
@@ -235,6 +272,30 @@ pub static ALL: &[&Formula] = &[
     &STRESS_RATIO,
     &HYDROTEST,
     &PNEUMATIC,
+    &STRESS_INTERPOLATION,
+    &PLATE_UNDERTOL_FRACTION,
+    &PLATE_UNDERTOL_LIMIT,
+    &PIPE_UNDERTOL,
+    &DELIVERED_THICKNESS,
+    &AVAILABLE_THICKNESS_MILL,
+    &NEW_THICKNESS_MILL,
+    &MEAN_DIAMETER_IN,
+    &MEAN_DIAMETER_OUT,
+    &NEW_INSIDE_DIAMETER,
+    &CYL_MASS,
+    &CYL_VOLUME,
+    &DEVELOPED_LENGTH,
+    &SPH_MASS,
+    &SPH_VOLUME,
+    &CONE_NEW_INSIDE,
+    &CONE_NEW_INSIDE_SMALL,
+    &CONE_AXIAL_LENGTH,
+    &CONE_MASS,
+    &CONE_VOLUME,
+    &HEAD_MASS,
+    &RUNNING_MASS,
+    &RUNNING_VOLUME,
+    &LIQUID_MASS,
 ];
 
 /// The kind of every symbol the formulas use; tests evaluate each formula
@@ -247,9 +308,15 @@ pub fn symbol_kind(symbol: &str) -> Option<crate::units::Kind> {
         "rho" => Density,
         "g" => Acceleration,
         "h" | "c" | "t_th" | "t_f" | "t_r" | "t_m" | "t_n" | "t" | "t_1" | "t_2" | "D" | "D_n" | "D_o" | "R"
-        | "R_o" | "L" | "L_n" | "L_e" | "r" | "r_n" | "D_s" | "D_i" | "Delta_o" | "Delta_i" | "Delta_max_o"
-        | "Delta_max_i" => Length,
+        | "R_o" | "L" | "L_n" | "L_e" | "r" | "r_n" | "D_s" => Length,
         "alpha" => Angle,
+        "T" | "T_1" | "T_2" => Temperature,
+        "S_1" | "S_2" => Stress,
+        "u" | "u_c" | "u_lim" | "t_u" | "t_d" | "D_m" | "D_i" | "D_2i" | "D_2o" | "L_s" | "L_dev" => Length,
+        "u_p" | "pi" => Dimensionless,
+        "rho_m" => Density,
+        "m" | "m_0" | "m_k" | "m_e" | "m_l" => Mass,
+        "V" | "V_0" | "V_k" | "V_v" | "V_m" => Volume,
         _ => return None,
     })
 }

@@ -10,13 +10,16 @@
 pub mod cone;
 pub mod formulas;
 pub mod heads;
+pub mod mass;
+pub mod selection;
 pub mod shells;
+pub mod stress;
 pub mod vessel;
 
 use crate::calc::{CalcError, Formula, Sheet};
 use crate::geometry::{self, component::ComponentGeometry};
 use crate::model::{Component, ComponentKind, Design, Diameter};
-use crate::rules::{Calculation, ComponentResult, RuleSet};
+use crate::rules::{Calculation, ComponentResult, OrderItem, RuleSet};
 use crate::units::{Kind, Quantity, UnitSystem, INCH, STANDARD_GRAVITY};
 use formulas as f;
 
@@ -126,8 +129,28 @@ pub fn evaluate_component(design: &Design, c: &Component) -> Result<ComponentRes
     let p = s.step(&f::PRESSURE_AT_COMPONENT, "design pressure at the component")?;
 
     // Material, joint and allowances.
-    s.input("S", &format!("allowable stress of {} at design temperature", material.name), material.allowable_stress);
-    s.input("E", "joint efficiency", Quantity::new(c.joint_efficiency, Kind::Dimensionless));
+    stress::allowable(&mut s, material, Condition::HotCorroded, "S")?;
+    let e = Quantity::new(c.joint_efficiency, Kind::Dimensionless);
+    match &c.joint {
+        None => {
+            s.input("E", "joint efficiency", e);
+        }
+        Some(j) => {
+            s.record(
+                "E",
+                &format!("joint efficiency looked up for {}", j.words()),
+                &j.clause(),
+                &format!(
+                    "E = {} (Table UW-12 as held by Knuckle, from memory of the code)",
+                    crate::expr::show_number(c.joint_efficiency)
+                ),
+                e,
+            );
+            if let Some(limit) = j.limitation() {
+                limits.push(format!("{}: {limit} Knuckle does not check this.", c.id));
+            }
+        }
+    }
     if matches!(c.kind, ComponentKind::Cylinder) {
         s.input(
             "E_c",
@@ -177,24 +200,13 @@ pub fn evaluate_component(design: &Design, c: &Component) -> Result<ComponentRes
         "minimum thickness: the larger of the pressure thickness and the floor, plus corrosion and thinning allowances",
     )?;
 
-    // Nominal thickness and its adequacy.
-    let nominal = match c.nominal_thickness {
-        Some(t) => {
-            s.input("t_n", "nominal thickness", t);
-            s.check_at_least(
-                "nominal thickness covers the minimum thickness",
-                "UG-16, UG-25, UG-27/UG-32",
-                minimum,
-                t,
-                "the nominal thickness is less than the minimum required; choose a thicker plate",
-            );
-            t
-        }
-        None => s.input("t_n", "no nominal thickness given: the minimum thickness is used", minimum),
-    };
+    // Nominal thickness (given, or selected from the commercial list) and its adequacy.
+    let chosen = selection::nominal(&mut s, design, c, minimum)?;
+    let nominal = chosen.thickness;
 
     // MAWP hot and corroded, after the shape limits that use the same thickness.
-    s.step(&f::AVAILABLE_THICKNESS, "thickness available, hot and corroded")?;
+    let available = if chosen.deducts { &f::AVAILABLE_THICKNESS_MILL } else { &f::AVAILABLE_THICKNESS };
+    s.step(available, "thickness available, hot and corroded")?;
     heads::shape_limits(&mut s, c, nominal)?;
     let mawp = component_mawp(&mut s, c, Condition::HotCorroded)?;
     s.check_at_least(
@@ -208,68 +220,62 @@ pub fn evaluate_component(design: &Design, c: &Component) -> Result<ComponentRes
 
     // MAP new and cold: no corrosion allowance, allowable stress at test temperature.
     s.input("c", "corrosion allowance, new condition", len(0.0));
-    s.input("S", &format!("allowable stress of {} at test temperature", material.name), material.test_allowable_stress);
+    stress::allowable(&mut s, material, Condition::NewCold, "S")?;
     bind_diameter(&mut s, c, Condition::NewCold)?;
-    s.step(&f::NEW_THICKNESS, "thickness available, new and cold")?;
+    let new = if chosen.deducts { &f::NEW_THICKNESS_MILL } else { &f::NEW_THICKNESS };
+    s.step(new, "thickness available, new and cold")?;
     let map = component_mawp(&mut s, c, Condition::NewCold)?;
 
-    let geometry = head_geometry(&mut s, c, nominal, material.density)?;
+    // Mass, volume and what to order, at the nominal thickness.
+    // `t_n` is still bound to the nominal (or selected) thickness.
+    let mv = if c.kind.is_formed_head() {
+        // filled from crate::geometry when merged: pass the head's metal and
+        // inside volumes here instead of `None`.
+        mass::head(&mut s, material, None)?
+    } else {
+        mass::shell(&mut s, c, material)?
+    };
+    let order = order_item(c, material, nominal, chosen.selected.as_ref(), mv);
+
     let mut result =
         finish(c, s, Some(required), Some(minimum), p, static_head, Some(mawp), Some(top), Some(map), limits);
-    result.geometry = geometry;
+    result.selected_thickness = chosen.selected.map(|k| k.thickness);
+    result.mass = mv.mass;
+    result.volume = mv.volume;
+    result.order = Some(order);
     Ok(result)
 }
 
-/// Geometry of formed heads and cones at the nominal (or minimum) thickness,
-/// with the UG-81 check of a 2:1-equivalent torisphere against the true 2:1
-/// ellipse it stands in for.
-fn head_geometry(
-    s: &mut Sheet,
+/// The order-list line of a component: what to buy and, for a rolled
+/// cylinder, the blank (width = length, length = developed length).
+fn order_item(
     c: &Component,
-    thickness: Quantity,
-    density: Quantity,
-) -> Result<Option<ComponentGeometry>, CalcError> {
-    let basis = if c.nominal_thickness.is_some() {
-        "nominal thickness"
-    } else {
-        "minimum thickness (no nominal thickness given)"
+    material: &crate::model::Material,
+    nominal: Quantity,
+    selected: Option<&crate::stock::Candidate>,
+    mv: mass::MassVolume,
+) -> OrderItem {
+    let pipe = c.pipe_size.as_ref().filter(|_| c.is_pipe());
+    let ordered_as = match (selected, pipe) {
+        (Some(k), _) => k.label.clone(),
+        (None, Some(p)) => format!("NPS {} pipe, wall as given", p.nps),
+        (None, None) => format!("{} as given", c.product_form.name()),
     };
-    let g = geometry::component::for_component(c, thickness.value * 1e3, density.value, basis)
-        .map_err(|e| CalcError::OutOfRange { component: c.id.clone(), message: format!("head geometry: {e}") })?;
-    let Some(g) = g else { return Ok(None) };
-    if let Some(dev) = g.shape_deviation.as_ref().filter(|d| d.judged) {
-        s.input("D_i", "inside diameter of the head, new", len(g.spec.inside_diameter * 1e-3));
-        let out_limit = s.step(&f::UG81_OUTSIDE, "largest deviation allowed outside the specified shape")?;
-        let in_limit = s.step(&f::UG81_INSIDE, "largest deviation allowed inside the specified shape")?;
-        let d_out = s.input(
-            "Delta_o",
-            "largest deviation outside the true 2:1 ellipse (normal distance, numerical search to 1e-10 mm)",
-            len(dev.deviation.max_outside * 1e-3),
-        );
-        let d_in = s.input(
-            "Delta_i",
-            "largest deviation inside the true 2:1 ellipse (normal distance, numerical search to 1e-10 mm)",
-            len(dev.deviation.max_inside * 1e-3),
-        );
-        let note = "the 2:1-equivalent torisphere departs from the 2:1 ellipse it stands in for by more than the forming tolerance";
-        s.check_at_most(
-            "deviation outside the 2:1 ellipse within the UG-81 tolerance",
-            "UG-81",
-            out_limit,
-            d_out,
-            note,
-            false,
-        );
-        s.check_at_most(
-            "deviation inside the 2:1 ellipse within the UG-81 tolerance",
-            "UG-81",
-            in_limit,
-            d_in,
-            note,
-            false,
-        );
+    let cylinder = matches!(c.kind, ComponentKind::Cylinder);
+    let (width, length) = match (cylinder, c.is_pipe()) {
+        (true, false) => (c.length.filter(|_| mv.developed_length.is_some()), mv.developed_length),
+        (true, true) => (None, c.length),
+        _ => (None, None),
+    };
+    OrderItem {
+        component: c.id.clone(),
+        material: material.name.clone(),
+        product_form: c.product_form.name().to_string(),
+        thickness: nominal,
+        ordered_as,
+        blank_width: width,
+        blank_length: length,
     }
-    Ok(Some(g))
 }
 
 /// The MAWP of a component for the thickness bound to `t`.
@@ -283,6 +289,7 @@ fn component_mawp(s: &mut Sheet, c: &Component, condition: Condition) -> Result<
         }
         ComponentKind::ConicalSection { .. } => cone::mawp(s, c, condition)?,
     };
+    // NaN must fail too, so the test is written to be true for it.
     if q.value.is_nan() || q.value <= 0.0 {
         return Err(CalcError::OutOfRange {
             component: c.id.clone(),
@@ -325,7 +332,10 @@ fn finish(
         map,
         limits,
         acceptable,
-        geometry: None,
+        selected_thickness: None,
+        mass: None,
+        volume: None,
+        order: None,
     }
 }
 

@@ -1,7 +1,10 @@
-//! Vessel-level results: the governing MAWP at the top and the test
-//! pressures of UG-99(b) (hydrostatic) and UG-100 (pneumatic).
+//! Vessel-level results: the governing MAWP at the top, the test
+//! pressures of UG-99(b) (hydrostatic) and UG-100 (pneumatic), and the
+//! totals of mass and volume with the order list.
 
 use super::formulas as f;
+use super::stress;
+use super::Condition;
 use crate::calc::{CalcError, Sheet};
 use crate::model::Design;
 use crate::rules::{ComponentResult, VesselResult};
@@ -61,8 +64,8 @@ pub fn evaluate(design: &Design, components: &[ComponentResult]) -> Result<Vesse
         let Some(m) = design.materials.get(key) else {
             continue;
         };
-        s.input("S_t", &format!("allowable stress of {} at test temperature", m.name), m.test_allowable_stress);
-        s.input("S", &format!("allowable stress of {} at design temperature", m.name), m.allowable_stress);
+        stress::allowable(&mut s, m, Condition::NewCold, "S_t")?;
+        stress::allowable(&mut s, m, Condition::HotCorroded, "S")?;
         let r = s.step(&f::STRESS_RATIO, &format!("stress ratio of {}", m.name))?;
         ratios.push(format!("{} {}", key, crate::units::format_number(r.value, 6)));
         if lowest.is_none_or(|(v, _)| r.value < v) {
@@ -73,6 +76,7 @@ pub fn evaluate(design: &Design, components: &[ComponentResult]) -> Result<Vesse
     s.input("LSR", "lowest stress ratio of the materials used", Quantity::new(ratio, Kind::Dimensionless));
     let hydro = s.step(&f::HYDROTEST, "minimum hydrostatic test pressure at the top")?;
     let pneu = s.step(&f::PNEUMATIC, "minimum pneumatic test pressure at the top")?;
+    let totals = totals(&mut s, design, components)?;
     let acceptable = s.checks.iter().all(|k| k.pass);
     Ok(VesselResult {
         steps: s.steps,
@@ -83,5 +87,59 @@ pub fn evaluate(design: &Design, components: &[ComponentResult]) -> Result<Vesse
         hydrotest_pressure: hydro,
         pneumatic_test_pressure: pneu,
         acceptable,
+        empty_mass: totals.mass,
+        volume: totals.volume,
+        liquid_mass: totals.liquid_mass,
+        totals_exclude: totals.exclude,
+        order_list: components.iter().filter_map(|c| c.order.clone()).collect(),
     })
+}
+
+struct Totals {
+    mass: Option<Quantity>,
+    volume: Option<Quantity>,
+    liquid_mass: Option<Quantity>,
+    exclude: Vec<String>,
+}
+
+/// Adds up one quantity over the components that have it, one recorded
+/// step per addition so that the total can be checked line by line.
+#[allow(clippy::too_many_arguments)]
+fn running_total(
+    s: &mut Sheet,
+    items: &[(&str, Quantity)],
+    total: &str,
+    previous: &str,
+    item: &str,
+    formula: &crate::calc::Formula,
+    what: &str,
+) -> Result<Option<Quantity>, CalcError> {
+    let Some(((first_id, first), rest)) = items.split_first() else {
+        return Ok(None);
+    };
+    let mut sum = s.input(total, &format!("{what}: `{first_id}`"), *first);
+    for (id, q) in rest {
+        s.input(item, &format!("{what} of `{id}`"), *q);
+        s.bind(previous, sum);
+        sum = s.step(formula, &format!("{what}, running total with `{id}`"))?;
+    }
+    Ok(Some(sum))
+}
+
+fn totals(s: &mut Sheet, design: &Design, components: &[ComponentResult]) -> Result<Totals, CalcError> {
+    let masses: Vec<(&str, Quantity)> = components.iter().filter_map(|c| c.mass.map(|m| (c.id.as_str(), m))).collect();
+    let volumes: Vec<(&str, Quantity)> =
+        components.iter().filter_map(|c| c.volume.map(|v| (c.id.as_str(), v))).collect();
+    let exclude: Vec<String> =
+        components.iter().filter(|c| c.mass.is_none() || c.volume.is_none()).map(|c| c.id.clone()).collect();
+    let mass = running_total(s, &masses, "m_e", "m_0", "m_k", &f::RUNNING_MASS, "empty mass")?;
+    let volume = running_total(s, &volumes, "V_v", "V_0", "V_k", &f::RUNNING_VOLUME, "inside volume")?;
+    let liquid_mass = match (volume, design.conditions.liquid_density) {
+        (Some(_), Some(rho)) => {
+            s.input("rho", "liquid density", rho);
+            Some(s.step(&f::LIQUID_MASS, "mass of liquid filling the inside volume")?)
+        }
+        _ => None,
+    };
+    Ok(Totals { mass, volume, liquid_mass, exclude })
 }

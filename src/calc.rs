@@ -172,6 +172,32 @@ impl Sheet {
         q
     }
 
+    /// Records a value chosen from earlier results (a minimum over
+    /// components, say) with the rule of choice written out in `formula` and
+    /// the values compared in `substituted`.
+    pub fn derived(
+        &mut self,
+        symbol: &str,
+        description: &str,
+        clause: &str,
+        formula: &str,
+        substituted: &str,
+        q: Quantity,
+    ) -> Quantity {
+        self.env.insert(symbol.to_string(), q);
+        let shown = expr::display_symbol(symbol);
+        self.steps.push(Step {
+            symbol: shown.clone(),
+            description: description.to_string(),
+            clause: clause.to_string(),
+            formula_id: None,
+            formula: format!("{shown} = {formula}"),
+            substituted: format!("{shown} = {substituted}"),
+            quantity: q,
+        });
+        q
+    }
+
     /// Sets a symbol without recording a step (for a value already shown
     /// under another name on the same sheet).
     pub fn bind(&mut self, symbol: &str, q: Quantity) {

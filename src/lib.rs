@@ -25,6 +25,8 @@ pub mod diag;
 pub mod drawing;
 pub mod expr;
 pub mod fsio;
+pub mod geometry;
+pub mod inspection;
 pub mod joints;
 pub mod materials;
 pub mod model;

@@ -67,7 +67,7 @@ fn compile_one(case: &Path, out: &Path, templates: &TemplateSet, options: &Optio
         Ok(s) => s,
         Err(e) => return Outcome::InputError(format!("error: cannot read case file `{file}`: {e}\n")),
     };
-    let ev = match crate::pipeline::evaluate(&file, &source) {
+    let ev = match crate::pipeline::evaluate_with(&file, &source, &crate::pipeline::FsLoader::beside(case)) {
         Ok(ev) => ev,
         Err(e) => return Outcome::InputError(e.render()),
     };

@@ -35,7 +35,11 @@ pub fn run(a: &InspectArgs) -> i32 {
         Ok(s) => s,
         Err(code) => return code,
     };
-    let ev = match crate::pipeline::evaluate(&a.case.display().to_string(), &source) {
+    let ev = match crate::pipeline::evaluate_with(
+        &a.case.display().to_string(),
+        &source,
+        &crate::pipeline::FsLoader::beside(&a.case),
+    ) {
         Ok(ev) => ev,
         Err(e) => {
             eprint!("{}", e.render());

@@ -5,6 +5,9 @@
 //! (or a verification failed), 2 an input or usage error (nothing written).
 
 mod check;
+pub mod compile;
+mod heads;
+mod inspect;
 mod materials;
 mod starter;
 pub mod verify;

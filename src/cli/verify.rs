@@ -76,7 +76,11 @@ pub fn run(a: &VerifyArgs) -> i32 {
                 Ok(s) => s,
                 Err(code) => return code,
             };
-            let ev = match crate::pipeline::evaluate(&case.display().to_string(), &source) {
+            let ev = match crate::pipeline::evaluate_with(
+                &case.display().to_string(),
+                &source,
+                &crate::pipeline::FsLoader::beside(case),
+            ) {
                 Ok(ev) => ev,
                 Err(e) => {
                     eprint!("{}", e.render());

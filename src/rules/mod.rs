@@ -110,6 +110,9 @@ pub struct ComponentResult {
     pub volume: Option<Quantity>,
     /// What to order for this component.
     pub order: Option<OrderItem>,
+    /// Geometry of formed heads and cones (depth, volume, area, blank, mass,
+    /// deviation from a reference ellipse).
+    pub geometry: Option<crate::geometry::component::ComponentGeometry>,
 }
 
 /// One line of the plate and pipe order list.

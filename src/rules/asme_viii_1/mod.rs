@@ -228,10 +228,14 @@ pub fn evaluate_component(design: &Design, c: &Component) -> Result<ComponentRes
 
     // Mass, volume and what to order, at the nominal thickness.
     // `t_n` is still bound to the nominal (or selected) thickness.
+    let geometry = head_geometry(&mut s, c, nominal, material.density)?;
     let mv = if c.kind.is_formed_head() {
-        // filled from crate::geometry when merged: pass the head's metal and
-        // inside volumes here instead of `None`.
-        mass::head(&mut s, material, None)?
+        // The head's metal and inside volumes come from its exact geometry.
+        let volumes = geometry.as_ref().map(|g| mass::HeadVolumes {
+            metal: Quantity::new(g.properties.metal_volume.value * 1e-9, Kind::Volume),
+            inside: Quantity::new(g.properties.volume_with_flange.value * 1e-9, Kind::Volume),
+        });
+        mass::head(&mut s, material, volumes)?
     } else {
         mass::shell(&mut s, c, material)?
     };
@@ -243,7 +247,57 @@ pub fn evaluate_component(design: &Design, c: &Component) -> Result<ComponentRes
     result.mass = mv.mass;
     result.volume = mv.volume;
     result.order = Some(order);
+    result.geometry = geometry;
     Ok(result)
+}
+
+/// Geometry of formed heads and cones at the nominal (or selected) thickness,
+/// with the UG-81 check of a 2:1-equivalent torisphere against the true 2:1
+/// ellipse it stands in for.
+fn head_geometry(
+    s: &mut Sheet,
+    c: &Component,
+    thickness: Quantity,
+    density: Quantity,
+) -> Result<Option<ComponentGeometry>, CalcError> {
+    let basis = if c.nominal_thickness.is_some() { "nominal thickness" } else { "selected thickness" };
+    let g = geometry::component::for_component(c, thickness.value * 1e3, density.value, basis)
+        .map_err(|e| CalcError::OutOfRange { component: c.id.clone(), message: format!("head geometry: {e}") })?;
+    let Some(g) = g else { return Ok(None) };
+    if let Some(dev) = g.shape_deviation.as_ref().filter(|d| d.judged) {
+        s.input("D_i", "inside diameter of the head, new", len(g.spec.inside_diameter * 1e-3));
+        let out_limit = s.step(&f::UG81_OUTSIDE, "largest deviation allowed outside the specified shape")?;
+        let in_limit = s.step(&f::UG81_INSIDE, "largest deviation allowed inside the specified shape")?;
+        let d_out = s.input(
+            "Delta_o",
+            "largest deviation outside the true 2:1 ellipse (normal distance, numerical search to 1e-10 mm)",
+            len(dev.deviation.max_outside * 1e-3),
+        );
+        let d_in = s.input(
+            "Delta_i",
+            "largest deviation inside the true 2:1 ellipse (normal distance, numerical search to 1e-10 mm)",
+            len(dev.deviation.max_inside * 1e-3),
+        );
+        let note = "the 2:1-equivalent torisphere departs from the 2:1 ellipse it stands in for by more than the \
+                    forming tolerance";
+        s.check_at_most(
+            "deviation outside the 2:1 ellipse within the UG-81 tolerance",
+            "UG-81",
+            out_limit,
+            d_out,
+            note,
+            false,
+        );
+        s.check_at_most(
+            "deviation inside the 2:1 ellipse within the UG-81 tolerance",
+            "UG-81",
+            in_limit,
+            d_in,
+            note,
+            false,
+        );
+    }
+    Ok(Some(g))
 }
 
 /// The order-list line of a component: what to buy and, for a rolled
@@ -336,6 +390,7 @@ fn finish(
         mass: None,
         volume: None,
         order: None,
+        geometry: None,
     }
 }
 

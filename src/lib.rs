@@ -23,4 +23,5 @@ pub mod package;
 pub mod pipeline;
 pub mod results;
 pub mod rules;
+pub mod signing;
 pub mod units;

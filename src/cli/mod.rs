@@ -5,6 +5,8 @@
 //! (or a verification failed), 2 an input or usage error (nothing written).
 
 mod check;
+mod keygen;
+mod sign;
 mod starter;
 
 use clap::{Parser, Subcommand};
@@ -36,6 +38,10 @@ enum Command {
     },
     /// Print the JSON Schema of the case file.
     Schema,
+    /// Create a signing key pair for one person.
+    Keygen(keygen::Args),
+    /// Sign a package for a sign-off role.
+    Sign(sign::Args),
 }
 
 /// Runs the command line and returns the exit status.
@@ -55,6 +61,8 @@ pub fn run(args: Vec<OsString>) -> i32 {
             println!("{}", starter::schema_text());
             EXIT_OK
         }
+        Command::Keygen(a) => keygen::run(&a),
+        Command::Sign(a) => sign::run(&a),
     }
 }
 

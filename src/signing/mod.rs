@@ -243,9 +243,8 @@ pub fn sign_package(
         .parent()
         .filter(|p| !p.as_os_str().is_empty())
         .unwrap_or(Path::new("."));
-    let text = std::fs::read_to_string(manifest_path).map_err(|e| {
-        SignError::Other(format!("cannot read `{}`: {e}", manifest_path.display()))
-    })?;
+    let text = std::fs::read_to_string(manifest_path)
+        .map_err(|e| SignError::Other(format!("cannot read `{}`: {e}", manifest_path.display())))?;
     let mut manifest = Manifest::from_json(&text)
         .map_err(|e| SignError::Other(format!("`{}`: {e}", manifest_path.display())))?;
     if !valid_date(date) {
@@ -261,11 +260,7 @@ pub fn sign_package(
     if !changed.is_empty() {
         return Err(SignError::PackageChanged(changed));
     }
-    if let Some(existing) = manifest
-        .signatures
-        .iter()
-        .find(|s| s.role == role.as_str())
-    {
+    if let Some(existing) = manifest.signatures.iter().find(|s| s.role == role.as_str()) {
         if !replace {
             let signer = safe_join(dir, &existing.file)
                 .and_then(|p| std::fs::read_to_string(p).ok())
@@ -302,7 +297,8 @@ pub fn sign_package(
     let io = |e: std::io::Error, p: &Path| {
         SignError::Other(format!("cannot write `{}`: {e}", p.display()))
     };
-    std::fs::create_dir_all(dir.join(SIGNATURE_DIR)).map_err(|e| io(e, &dir.join(SIGNATURE_DIR)))?;
+    std::fs::create_dir_all(dir.join(SIGNATURE_DIR))
+        .map_err(|e| io(e, &dir.join(SIGNATURE_DIR)))?;
     // The signature file first, the manifest second: an interruption in
     // between leaves the old manifest, which still verifies on its own.
     crate::fsio::write_atomic(&path, body.as_bytes()).map_err(|e| io(e, &path))?;
@@ -561,11 +557,14 @@ pub fn signoff_report(dir: &Path, manifest: &Manifest, trusted: &[PublicKey]) ->
         document: manifest.document.number.clone(),
         revision: manifest.document.revision.clone(),
         digest: manifest.digest.clone(),
-        package_intact: signatures.first().map(|s| s.package_intact).unwrap_or_else(|| {
-            check_files(dir, manifest)
-                .iter()
-                .all(|(_, s)| *s == FileState::Intact)
-        }),
+        package_intact: signatures
+            .first()
+            .map(|s| s.package_intact)
+            .unwrap_or_else(|| {
+                check_files(dir, manifest)
+                    .iter()
+                    .all(|(_, s)| *s == FileState::Intact)
+            }),
         signatures,
         missing_roles,
     }
@@ -585,7 +584,9 @@ pub fn format_signoff_text(r: &SignOffReport) -> String {
     for s in &r.signatures {
         let what = match &s.state {
             SignatureState::Valid => "valid signature".to_string(),
-            SignatureState::Unreadable(m) => format!("INVALID: the signature file is unreadable ({m})"),
+            SignatureState::Unreadable(m) => {
+                format!("INVALID: the signature file is unreadable ({m})")
+            }
             SignatureState::FileChanged => {
                 "INVALID: the signature file was changed after signing".to_string()
             }
@@ -613,10 +614,7 @@ pub fn format_signoff_text(r: &SignOffReport) -> String {
         } else {
             ""
         };
-        out.push_str(&format!(
-            "  {:<9} {what}: {who}{trust}{files}\n",
-            s.role
-        ));
+        out.push_str(&format!("  {:<9} {what}: {who}{trust}{files}\n", s.role));
     }
     if !r.missing_roles.is_empty() {
         let names: Vec<&str> = r.missing_roles.iter().map(|x| x.as_str()).collect();

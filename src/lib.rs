@@ -10,6 +10,7 @@
 //! | rules of a design code | [`calc::Calculation`] | [`rules`], [`calc`] |
 //! | figures | [`drawing::Drawing`] | [`drawing`] |
 
+pub mod archive;
 pub mod calc;
 pub mod case;
 pub mod cautions;

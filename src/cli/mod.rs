@@ -5,7 +5,9 @@
 //! (or a verification failed), 2 an input or usage error (nothing written).
 
 mod check;
+mod issue;
 mod keygen;
+mod register;
 mod sign;
 mod starter;
 
@@ -42,6 +44,10 @@ enum Command {
     Keygen(keygen::Args),
     /// Sign a package for a sign-off role.
     Sign(sign::Args),
+    /// Record an issued revision in an archive.
+    Issue(issue::Args),
+    /// Read or verify an archive's register.
+    Register(register::Args),
 }
 
 /// Runs the command line and returns the exit status.
@@ -63,6 +69,8 @@ pub fn run(args: Vec<OsString>) -> i32 {
         }
         Command::Keygen(a) => keygen::run(&a),
         Command::Sign(a) => sign::run(&a),
+        Command::Issue(a) => issue::run(&a),
+        Command::Register(a) => register::run(&a),
     }
 }
 

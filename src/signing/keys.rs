@@ -291,7 +291,7 @@ pub fn verifying_key_from_hex(text: &str) -> Result<VerifyingKey, String> {
 /// Decodes lower- or upper-case hex; `None` for odd length or a non-hex digit.
 pub fn decode_hex(text: &str) -> Option<Vec<u8>> {
     let b = text.as_bytes();
-    if b.len() % 2 != 0 {
+    if !b.len().is_multiple_of(2) {
         return None;
     }
     let digit = |c: u8| -> Option<u8> {

@@ -255,7 +255,8 @@ impl Archive {
                 "say who issues the revision with --by NAME".into(),
             ));
         }
-        let (manifest_path, manifest) = select_manifest(dir, document).map_err(ArchiveError::Input)?;
+        let (manifest_path, manifest) =
+            select_manifest(dir, document).map_err(ArchiveError::Input)?;
         let package = collect_package(dir, &manifest_path, &manifest)?;
 
         // A quick look before writing anything, so that a refused issue
@@ -433,7 +434,9 @@ impl Archive {
         let last_hash = records.last().map(|r| r.record_hash.clone());
         let head_ok = match &last_hash {
             None => head.is_none(),
-            Some(h) => head.as_deref() == Some(h.as_str()) && count == Some(records.len().to_string()),
+            Some(h) => {
+                head.as_deref() == Some(h.as_str()) && count == Some(records.len().to_string())
+            }
         };
         if !head_ok {
             problems.push(
@@ -494,7 +497,11 @@ fn status_problems(records: &[Record], words: &[(i64, String)]) -> Vec<String> {
                 .find(|(s, _)| *s == r.seq)
                 .map(|(_, w)| w.as_str())
                 .unwrap_or("");
-            let expected = if next.is_some() { "superseded" } else { "current" };
+            let expected = if next.is_some() {
+                "superseded"
+            } else {
+                "current"
+            };
             if word != expected || r.superseded_by.as_deref() != next {
                 out.push(format!(
                     "record {} ({doc} revision {}): marked `{word}`{}, but the chain says {expected}{}",
@@ -603,9 +610,8 @@ fn collect_package(
         let path = crate::package::manifest::safe_join(dir, &name).ok_or_else(|| {
             ArchiveError::PackageInvalid(format!("file name `{name}` leaves the package"))
         })?;
-        let bytes = std::fs::read(&path).map_err(|e| {
-            ArchiveError::Input(format!("cannot read `{}`: {e}", path.display()))
-        })?;
+        let bytes = std::fs::read(&path)
+            .map_err(|e| ArchiveError::Input(format!("cannot read `{}`: {e}", path.display())))?;
         files.push(StoredFile {
             name: name.clone(),
             sha256: sha256_hex(&bytes),

@@ -1,7 +1,9 @@
 //! `knuckle issue PACKAGE_DIR --archive ARCHIVE`: records an issued revision.
 
 use super::{EXIT_INPUT, EXIT_NOT_ACCEPTABLE, EXIT_OK};
-use crate::archive::{valid_timestamp, Archive, ArchiveError, Clock, FixedClock, IssueOutcome, SystemClock};
+use crate::archive::{
+    valid_timestamp, Archive, ArchiveError, Clock, FixedClock, IssueOutcome, SystemClock,
+};
 use std::path::PathBuf;
 
 /// Arguments of `issue`.
@@ -35,12 +37,11 @@ pub fn run(a: &Args) -> i32 {
         Some(t) => Box::new(FixedClock(t.clone())),
         None => Box::new(SystemClock),
     };
-    let by = a
-        .by
-        .clone()
-        .or_else(|| std::env::var("USER").ok())
-        .or_else(|| std::env::var("LOGNAME").ok())
-        .unwrap_or_default();
+    let by =
+        a.by.clone()
+            .or_else(|| std::env::var("USER").ok())
+            .or_else(|| std::env::var("LOGNAME").ok())
+            .unwrap_or_default();
     let result = Archive::open_or_create(&a.archive).and_then(|mut archive| {
         archive.issue(&a.package, a.document.as_deref(), &by, clock.as_ref())
     });

@@ -121,7 +121,10 @@ fn detail(r: &Record) -> String {
     }
     out.push_str("  files:\n");
     for f in &r.files {
-        out.push_str(&format!("    {}  {:>9} bytes  {}\n", f.sha256, f.bytes, f.name));
+        out.push_str(&format!(
+            "    {}  {:>9} bytes  {}\n",
+            f.sha256, f.bytes, f.name
+        ));
     }
     out.push_str(&format!("  record hash {}\n", r.record_hash));
     out

@@ -16,6 +16,7 @@ pub mod case;
 pub mod cautions;
 pub mod cli;
 pub mod diag;
+pub mod diff;
 pub mod drawing;
 pub mod expr;
 pub mod fsio;

@@ -5,6 +5,7 @@
 //! (or a verification failed), 2 an input or usage error (nothing written).
 
 mod check;
+mod diff;
 mod issue;
 mod keygen;
 mod register;
@@ -44,6 +45,8 @@ enum Command {
     Keygen(keygen::Args),
     /// Sign a package for a sign-off role.
     Sign(sign::Args),
+    /// Show what changed between two revisions.
+    Diff(diff::Args),
     /// Record an issued revision in an archive.
     Issue(issue::Args),
     /// Read or verify an archive's register.
@@ -69,6 +72,7 @@ pub fn run(args: Vec<OsString>) -> i32 {
         }
         Command::Keygen(a) => keygen::run(&a),
         Command::Sign(a) => sign::run(&a),
+        Command::Diff(a) => diff::run(&a),
         Command::Issue(a) => issue::run(&a),
         Command::Register(a) => register::run(&a),
     }

@@ -86,7 +86,9 @@ pub struct Snapshot {
     pub summary: Vec<(String, Value)>,
 }
 
-fn keyed_steps<'a>(steps: impl Iterator<Item = (String, String, String, Quantity)> + 'a) -> Vec<StepSnap> {
+fn keyed_steps<'a>(
+    steps: impl Iterator<Item = (String, String, String, Quantity)> + 'a,
+) -> Vec<StepSnap> {
     let mut seen: Vec<(String, usize)> = Vec::new();
     steps
         .map(|(symbol, description, clause, value)| {
@@ -119,19 +121,14 @@ fn part_from_result(c: &ComponentResult) -> PartSnap {
 fn part_from(id: &str, steps: &[crate::calc::Step], checks: &[crate::calc::Check]) -> PartSnap {
     PartSnap {
         id: id.to_string(),
-        steps: keyed_steps(
-            steps
-                .iter()
-                .filter(|s| s.clause != "input")
-                .map(|s| {
-                    (
-                        s.symbol.clone(),
-                        s.description.clone(),
-                        s.clause.clone(),
-                        s.quantity,
-                    )
-                }),
-        ),
+        steps: keyed_steps(steps.iter().filter(|s| s.clause != "input").map(|s| {
+            (
+                s.symbol.clone(),
+                s.description.clone(),
+                s.clause.clone(),
+                s.quantity,
+            )
+        })),
         checks: checks
             .iter()
             .map(|k| CheckSnap {
@@ -155,11 +152,17 @@ impl Snapshot {
         let q = Value::Quantity;
         let mut inputs: Vec<(String, Value)> = vec![
             ("rule set".into(), Value::Text(d.document.rules.clone())),
-            ("code edition".into(), Value::Text(d.document.edition.clone())),
+            (
+                "code edition".into(),
+                Value::Text(d.document.edition.clone()),
+            ),
             ("report units".into(), Value::Text(d.units.name().into())),
             ("design pressure".into(), q(d.conditions.pressure)),
             ("design temperature".into(), q(d.conditions.temperature)),
-            ("corrosion allowance".into(), q(d.conditions.corrosion_allowance)),
+            (
+                "corrosion allowance".into(),
+                q(d.conditions.corrosion_allowance),
+            ),
             (
                 "liquid density".into(),
                 d.conditions
@@ -183,7 +186,8 @@ impl Snapshot {
                 Diameter::Inside(v) => inputs.push((k("inside diameter"), q(v))),
                 Diameter::Outside(v) => inputs.push((k("outside diameter"), q(v))),
             }
-            let opt = |v: Option<Quantity>| v.map(q).unwrap_or_else(|| Value::Text("not given".into()));
+            let opt =
+                |v: Option<Quantity>| v.map(q).unwrap_or_else(|| Value::Text("not given".into()));
             inputs.push((k("nominal thickness"), opt(c.nominal_thickness)));
             inputs.push((k("joint efficiency"), Value::Number(c.joint_efficiency)));
             if matches!(c.kind, ComponentKind::Cylinder) {
@@ -238,7 +242,10 @@ impl Snapshot {
                 Value::Text(v.governing_component.clone()),
             ),
             ("hydrostatic test pressure".into(), q(v.hydrotest_pressure)),
-            ("pneumatic test pressure".into(), q(v.pneumatic_test_pressure)),
+            (
+                "pneumatic test pressure".into(),
+                q(v.pneumatic_test_pressure),
+            ),
             ("status".into(), status_word(calc.acceptable())),
         ];
         Snapshot {
@@ -276,9 +283,15 @@ impl Snapshot {
         let design = &v["design"];
         let mut inputs = vec![
             ("rule set".into(), Value::Text(text(&v["rules"]["id"]))),
-            ("code edition".into(), Value::Text(text(&v["rules"]["edition"]))),
+            (
+                "code edition".into(),
+                Value::Text(text(&v["rules"]["edition"])),
+            ),
             ("report units".into(), Value::Text(units.name().into())),
-            ("design pressure".into(), fixed(&design["pressure"], Kind::Pressure)),
+            (
+                "design pressure".into(),
+                fixed(&design["pressure"], Kind::Pressure),
+            ),
             (
                 "design temperature".into(),
                 fixed(&design["temperature"], Kind::Temperature),
@@ -366,7 +379,10 @@ impl Snapshot {
             checks: read_checks(&ves["checks"]),
         });
         let summary = vec![
-            ("vessel MAWP at the top".into(), fixed(&ves["mawp"], Kind::Pressure)),
+            (
+                "vessel MAWP at the top".into(),
+                fixed(&ves["mawp"], Kind::Pressure),
+            ),
             (
                 "governing component".into(),
                 Value::Text(text(&ves["governing_component"])),
@@ -379,10 +395,7 @@ impl Snapshot {
                 "pneumatic test pressure".into(),
                 fixed(&ves["pneumatic_test_pressure"], Kind::Pressure),
             ),
-            (
-                "status".into(),
-                status_word(v["status"] == "acceptable"),
-            ),
+            ("status".into(), status_word(v["status"] == "acceptable")),
         ];
         Ok(Snapshot {
             number: text(&v["document"]["number"]),
@@ -572,7 +585,10 @@ fn same_value(a: &Value, b: &Value) -> bool {
 
 /// Compares two evaluated cases.
 pub fn diff_cases(old: &Evaluated, new: &Evaluated) -> Diff {
-    diff_snapshots(&Snapshot::from_evaluated(old), &Snapshot::from_evaluated(new))
+    diff_snapshots(
+        &Snapshot::from_evaluated(old),
+        &Snapshot::from_evaluated(new),
+    )
 }
 
 /// Compares two snapshots (take both from the same kind of source, so that
@@ -635,7 +651,11 @@ pub fn diff_snapshots(old: &Snapshot, new: &Snapshot) -> Diff {
                 });
             }
         }
-        for os in op.steps.iter().filter(|o| !np.steps.iter().any(|n| n.key == o.key)) {
+        for os in op
+            .steps
+            .iter()
+            .filter(|o| !np.steps.iter().any(|n| n.key == o.key))
+        {
             steps.push(StepChange {
                 part: np.id.clone(),
                 symbol: os.symbol.clone(),
@@ -662,7 +682,11 @@ pub fn diff_snapshots(old: &Snapshot, new: &Snapshot) -> Diff {
                 other_checks.push(change);
             }
         }
-        for oc in op.checks.iter().filter(|o| !np.checks.iter().any(|n| n.name == o.name)) {
+        for oc in op
+            .checks
+            .iter()
+            .filter(|o| !np.checks.iter().any(|n| n.name == o.name))
+        {
             other_checks.push(CheckChange {
                 part: np.id.clone(),
                 name: oc.name.clone(),
@@ -861,7 +885,10 @@ pub fn diff_markdown(d: &Diff) -> String {
             out.push_str(&format!("| component {} | (absent) | added |\n", cell(p)));
         }
         for p in &d.removed_parts {
-            out.push_str(&format!("| component {} | present | (removed) |\n", cell(p)));
+            out.push_str(&format!(
+                "| component {} | present | (removed) |\n",
+                cell(p)
+            ));
         }
         for c in &d.inputs {
             out.push_str(&format!(
@@ -927,7 +954,9 @@ pub fn diff_markdown(d: &Diff) -> String {
             cell(new)
         ));
         for c in &d.summary {
-            let rel = summary_rel(c).map(|r| show_rel(Some(r))).unwrap_or_default();
+            let rel = summary_rel(c)
+                .map(|r| show_rel(Some(r)))
+                .unwrap_or_default();
             out.push_str(&format!(
                 "| {} | {} | {} | {rel} |\n",
                 cell(&c.item),

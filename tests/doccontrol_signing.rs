@@ -94,8 +94,10 @@ fn a_changed_byte_invalidates_the_signature() {
     let m = read_manifest(&manifest_path);
     let r = &verify_signatures(&pkg, &m, std::slice::from_ref(&p))[0];
     assert!(!r.package_intact && !r.approves());
-    assert!(format_signoff_text(&signoff_report(&pkg, &m, &[p.clone()]))
-        .contains("no longer match the manifest"));
+    assert!(
+        format_signoff_text(&signoff_report(&pkg, &m, std::slice::from_ref(&p)))
+            .contains("no longer match the manifest")
+    );
 
     // Re-hash the manifest to hide the change: now the signature itself fails.
     let mut forged = m.clone();
@@ -105,7 +107,7 @@ fn a_changed_byte_invalidates_the_signature() {
         }
     });
     std::fs::write(&manifest_path, forged.to_json()).unwrap();
-    let r = &verify_signatures(&pkg, &forged, &[p.clone()])[0];
+    let r = &verify_signatures(&pkg, &forged, std::slice::from_ref(&p))[0];
     assert_eq!(r.state, SignatureState::BadSignature);
     assert!(!r.approves());
 
@@ -185,7 +187,7 @@ fn missing_roles_are_reported() {
     let mp = write_package(&all, "D-104", "A", "x", None);
     let (k, p) = keygen(&root, "k.key", "A. Engineer");
     assert_eq!(sign(&all, "prepared", &k, &[]).status.code(), Some(0));
-    let r = signoff_report(&all, &read_manifest(&mp), &[p.clone()]);
+    let r = signoff_report(&all, &read_manifest(&mp), std::slice::from_ref(&p));
     assert_eq!(r.missing_roles, vec![Role::Checked, Role::Approved]);
     assert!(format_signoff_text(&r).contains("missing: no valid signature for checked, approved"));
 

@@ -29,7 +29,9 @@ enum Side {
 fn load(path: &Path) -> Result<Side, String> {
     let results_path = if path.is_dir() {
         let (_, m) = select_manifest(path, None).map_err(|e| {
-            format!("{e}; or name the package's results file (`<number>_rev<revision>.json`) directly")
+            format!(
+                "{e}; or name the package's results file (`<number>_rev<revision>.json`) directly"
+            )
         })?;
         Some(path.join(format!("{}.json", m.stem())))
     } else if path.extension().is_some_and(|e| e == "json") {
@@ -77,7 +79,9 @@ pub fn run(a: &Args) -> i32 {
     // Two case files compare on their full inputs; otherwise both sides are
     // read as results files, so that their inputs are named alike.
     let snapshots = match (&old, &new) {
-        (Side::Case(o), Side::Case(n)) => Ok((Snapshot::from_evaluated(o), Snapshot::from_evaluated(n))),
+        (Side::Case(o), Side::Case(n)) => {
+            Ok((Snapshot::from_evaluated(o), Snapshot::from_evaluated(n)))
+        }
         _ => Snapshot::from_results(&as_results(&old))
             .and_then(|o| Snapshot::from_results(&as_results(&new)).map(|n| (o, n))),
     };

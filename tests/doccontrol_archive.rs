@@ -187,6 +187,23 @@ fn re_issue_is_a_no_op_when_identical_and_refused_when_different() {
     let o = issue(&broken, &archive, "2026-03-06T09:00:00Z", &[]);
     assert_eq!(o.status.code(), Some(1));
     assert!(stderr(&o).contains("D-201_revB.md changed"));
+    // Input errors write nothing, not even an empty archive.
+    let fresh = archive.with_file_name("never-created");
+    let o = issue(&broken, &fresh, "2026-03-06T09:00:00Z", &[]);
+    assert_eq!(o.status.code(), Some(1));
+    let o = issue(
+        &archive.with_file_name("no-such-package"),
+        &fresh,
+        "2026-03-06T09:00:00Z",
+        &[],
+    );
+    assert_eq!(o.status.code(), Some(2));
+    assert!(
+        stderr(&o).contains("cannot read package directory"),
+        "{}",
+        stderr(&o)
+    );
+    assert!(!fresh.exists());
     // A bad time is a usage error.
     let o = issue(&a, &archive, "yesterday", &[]);
     assert_eq!(o.status.code(), Some(2));

@@ -249,19 +249,23 @@ impl Archive {
         issued_by: &str,
         clock: &dyn Clock,
     ) -> Result<IssueOutcome, ArchiveError> {
-        let issued_by = issued_by.trim();
-        if issued_by.is_empty() || issued_by.chars().any(char::is_control) {
-            return Err(ArchiveError::Input(
-                "say who issues the revision with --by NAME".into(),
-            ));
-        }
-        let (manifest_path, manifest) =
-            select_manifest(dir, document).map_err(ArchiveError::Input)?;
-        let package = collect_package(dir, &manifest_path, &manifest)?;
+        let package = PreparedPackage::read(dir, document)?;
+        self.issue_prepared(&package, issued_by, clock)
+    }
 
+    /// Issues a package already read and checked.
+    pub fn issue_prepared(
+        &mut self,
+        prepared: &PreparedPackage,
+        issued_by: &str,
+        clock: &dyn Clock,
+    ) -> Result<IssueOutcome, ArchiveError> {
+        let issued_by = check_issuer(issued_by)?;
+        let manifest = &prepared.manifest;
+        let package = &prepared.collected;
         // A quick look before writing anything, so that a refused issue
         // leaves not even an unreferenced object behind.
-        if let Some(done) = self.already(&manifest, &package.files)? {
+        if let Some(done) = self.already(manifest, &package.files)? {
             return Ok(IssueOutcome::AlreadyIssued(done));
         }
         for (n, (_, bytes)) in package.contents.iter().enumerate() {
@@ -547,7 +551,46 @@ fn compare_existing(r: Record, files: &[StoredFile]) -> Result<IssueOutcome, Arc
     })
 }
 
+/// Checks the issuer's name.
+pub fn check_issuer(issued_by: &str) -> Result<&str, ArchiveError> {
+    let issued_by = issued_by.trim();
+    if issued_by.is_empty() || issued_by.chars().any(char::is_control) {
+        return Err(ArchiveError::Input(
+            "say who issues the revision with --by NAME".into(),
+        ));
+    }
+    Ok(issued_by)
+}
+
+/// A package read from its folder and checked, ready to issue: its files
+/// match the manifest and every signature in it is valid.
+#[derive(Debug, Clone)]
+pub struct PreparedPackage {
+    manifest: Manifest,
+    collected: Collected,
+}
+
+impl PreparedPackage {
+    /// Reads and checks the package in `dir` (choosing among several
+    /// manifests by `document`). Nothing is written.
+    pub fn read(dir: &Path, document: Option<&str>) -> Result<PreparedPackage, ArchiveError> {
+        let (manifest_path, manifest) =
+            select_manifest(dir, document).map_err(ArchiveError::Input)?;
+        let collected = collect_package(dir, &manifest_path, &manifest)?;
+        Ok(PreparedPackage {
+            manifest,
+            collected,
+        })
+    }
+
+    /// The package's manifest.
+    pub fn manifest(&self) -> &Manifest {
+        &self.manifest
+    }
+}
+
 /// The files of a package ready to store.
+#[derive(Debug, Clone)]
 struct Collected {
     manifest_name: String,
     files: Vec<StoredFile>,

@@ -2,7 +2,8 @@
 
 use super::{EXIT_INPUT, EXIT_NOT_ACCEPTABLE, EXIT_OK};
 use crate::archive::{
-    valid_timestamp, Archive, ArchiveError, Clock, FixedClock, IssueOutcome, SystemClock,
+    check_issuer, valid_timestamp, Archive, ArchiveError, Clock, FixedClock, IssueOutcome,
+    PreparedPackage, SystemClock,
 };
 use std::path::PathBuf;
 
@@ -42,9 +43,13 @@ pub fn run(a: &Args) -> i32 {
             .or_else(|| std::env::var("USER").ok())
             .or_else(|| std::env::var("LOGNAME").ok())
             .unwrap_or_default();
-    let result = Archive::open_or_create(&a.archive).and_then(|mut archive| {
-        archive.issue(&a.package, a.document.as_deref(), &by, clock.as_ref())
-    });
+    // Everything is checked before the archive is created or touched.
+    let result = check_issuer(&by)
+        .and_then(|_| PreparedPackage::read(&a.package, a.document.as_deref()))
+        .and_then(|package| {
+            Archive::open_or_create(&a.archive)
+                .and_then(|mut archive| archive.issue_prepared(&package, &by, clock.as_ref()))
+        });
     match result {
         Ok(IssueOutcome::Issued(r)) => {
             println!(

@@ -30,10 +30,7 @@ pub struct Formula {
 impl Formula {
     /// The parsed right-hand side.
     pub fn expr(&self) -> Result<Expr, CalcError> {
-        expr::parse(self.text).map_err(|e| CalcError::Formula {
-            id: self.id,
-            message: e.0,
-        })
+        expr::parse(self.text).map_err(|e| CalcError::Formula { id: self.id, message: e.0 })
     }
 }
 
@@ -134,13 +131,7 @@ pub struct Sheet {
 impl Sheet {
     /// An empty sheet that shows values in `units`.
     pub fn new(component: &str, units: UnitSystem) -> Sheet {
-        Sheet {
-            component: component.to_string(),
-            units,
-            env: Env::new(),
-            steps: Vec::new(),
-            checks: Vec::new(),
-        }
+        Sheet { component: component.to_string(), units, env: Env::new(), steps: Vec::new(), checks: Vec::new() }
     }
 
     /// The unit system of the sheet.
@@ -181,17 +172,9 @@ impl Sheet {
     }
 
     /// Like [`step`](Self::step) but binds and shows the result under `symbol`.
-    pub fn step_as(
-        &mut self,
-        f: &Formula,
-        symbol: &str,
-        description: &str,
-    ) -> Result<Quantity, CalcError> {
+    pub fn step_as(&mut self, f: &Formula, symbol: &str, description: &str) -> Result<Quantity, CalcError> {
         let e = f.expr()?;
-        let v = e.eval(&self.env).map_err(|err| CalcError::Formula {
-            id: f.id,
-            message: err.0,
-        })?;
+        let v = e.eval(&self.env).map_err(|err| CalcError::Formula { id: f.id, message: err.0 })?;
         if v.dim != f.result.dim() {
             return Err(CalcError::Formula {
                 id: f.id,
@@ -201,10 +184,7 @@ impl Sheet {
         if !v.value.is_finite() {
             return Err(CalcError::OutOfRange {
                 component: self.component.clone(),
-                message: format!(
-                    "{description} ({}) is not a finite number for these inputs",
-                    f.id
-                ),
+                message: format!("{description} ({}) is not a finite number for these inputs", f.id),
             });
         }
         let q = Quantity::new(v.value, f.result);
@@ -239,10 +219,7 @@ impl Sheet {
             required: Some(required),
             provided: Some(provided),
             pass,
-            margin: Some(Quantity::new(
-                provided.value - required.value,
-                required.kind,
-            )),
+            margin: Some(Quantity::new(provided.value - required.value, required.kind)),
             relation: "≥".to_string(),
             note: note.to_string(),
             applicability: false,
@@ -312,20 +289,9 @@ impl Sheet {
 mod tests {
     use super::*;
 
-    const DOUBLE: Formula = Formula {
-        id: "test-double",
-        symbol: "y",
-        clause: "test",
-        text: "2*x",
-        result: Kind::Length,
-    };
-    const WRONG: Formula = Formula {
-        id: "test-wrong",
-        symbol: "y",
-        clause: "test",
-        text: "x*x",
-        result: Kind::Length,
-    };
+    const DOUBLE: Formula =
+        Formula { id: "test-double", symbol: "y", clause: "test", text: "2*x", result: Kind::Length };
+    const WRONG: Formula = Formula { id: "test-wrong", symbol: "y", clause: "test", text: "x*x", result: Kind::Length };
 
     #[test]
     fn step_records_formula_substitution_and_value() {
@@ -343,10 +309,7 @@ mod tests {
     fn wrong_result_dimension_is_an_error() {
         let mut s = Sheet::new("c", UnitSystem::Si);
         s.input("x", "a length", Quantity::mm(4.0));
-        assert!(matches!(
-            s.step(&WRONG, "bad"),
-            Err(CalcError::Formula { .. })
-        ));
+        assert!(matches!(s.step(&WRONG, "bad"), Err(CalcError::Formula { .. })));
     }
 
     #[test]

@@ -22,15 +22,8 @@ pub fn all(_design: &Design, calc: &Calculation) -> Vec<String> {
         out.extend(c.limits.iter().cloned());
     }
     for (id, k) in calc.failed_checks() {
-        let kind = if k.applicability {
-            "Limit of applicability not met"
-        } else {
-            "Check failed"
-        };
-        out.push(format!(
-            "{kind} for `{id}`: {} ({}): {}.",
-            k.name, k.clause, k.note
-        ));
+        let kind = if k.applicability { "Limit of applicability not met" } else { "Check failed" };
+        out.push(format!("{kind} for `{id}`: {} ({}): {}.", k.name, k.clause, k.note));
     }
     out
 }

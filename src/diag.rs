@@ -22,18 +22,8 @@ pub struct Diagnostic {
 
 impl Diagnostic {
     /// A diagnostic at a span for a key.
-    pub fn new(
-        key: impl Into<String>,
-        span: Option<Range<usize>>,
-        message: impl Into<String>,
-    ) -> Diagnostic {
-        Diagnostic {
-            message: message.into(),
-            key: key.into(),
-            span,
-            expected: None,
-            hint: None,
-        }
+    pub fn new(key: impl Into<String>, span: Option<Range<usize>>, message: impl Into<String>) -> Diagnostic {
+        Diagnostic { message: message.into(), key: key.into(), span, expected: None, hint: None }
     }
     /// Adds what was expected.
     pub fn expected(mut self, e: impl Into<String>) -> Diagnostic {
@@ -62,11 +52,7 @@ pub struct InputErrors {
 impl InputErrors {
     /// A single problem.
     pub fn one(file: &str, source: &str, d: Diagnostic) -> InputErrors {
-        InputErrors {
-            file: file.to_string(),
-            source: source.to_string(),
-            errors: vec![d],
-        }
+        InputErrors { file: file.to_string(), source: source.to_string(), errors: vec![d] }
     }
 
     /// Line and column (1-based, in characters) of a byte offset.
@@ -88,12 +74,7 @@ impl InputErrors {
                     let width = span_width(&self.source, span, text, col);
                     out.push_str(&format!("{:gutter$} |\n", ""));
                     out.push_str(&format!("{line} | {text}\n"));
-                    out.push_str(&format!(
-                        "{:gutter$} | {}{}\n",
-                        "",
-                        " ".repeat(col - 1),
-                        "^".repeat(width)
-                    ));
+                    out.push_str(&format!("{:gutter$} | {}{}\n", "", " ".repeat(col - 1), "^".repeat(width)));
                 }
                 None => out.push_str(&format!("  --> {}\n", self.file)),
             }
@@ -140,11 +121,7 @@ pub fn line_col(source: &str, offset: usize) -> (usize, usize) {
             start = i + 1;
         }
     }
-    let col = source
-        .get(start..offset)
-        .map(|s| s.chars().count())
-        .unwrap_or(0)
-        + 1;
+    let col = source.get(start..offset).map(|s| s.chars().count()).unwrap_or(0) + 1;
     (line, col)
 }
 
@@ -165,13 +142,9 @@ mod tests {
     fn renders_line_column_marker_expected_and_hint() {
         let src = "[design]\ninternal_pressure = \"12 mm\"\n";
         let start = src.find("\"12").unwrap();
-        let d = Diagnostic::new(
-            "design.internal_pressure",
-            Some(start..start + 7),
-            "`mm` is not a unit of pressure",
-        )
-        .expected("a pressure")
-        .hint("write e.g. \"1.0 MPa\"");
+        let d = Diagnostic::new("design.internal_pressure", Some(start..start + 7), "`mm` is not a unit of pressure")
+            .expected("a pressure")
+            .hint("write e.g. \"1.0 MPa\"");
         let text = InputErrors::one("case.toml", src, d).render();
         assert!(text.contains("--> case.toml:2:21"), "{text}");
         assert!(text.contains("2 | internal_pressure = \"12 mm\""));

@@ -86,9 +86,7 @@ pub struct Snapshot {
     pub summary: Vec<(String, Value)>,
 }
 
-fn keyed_steps<'a>(
-    steps: impl Iterator<Item = (String, String, String, Quantity)> + 'a,
-) -> Vec<StepSnap> {
+fn keyed_steps<'a>(steps: impl Iterator<Item = (String, String, String, Quantity)> + 'a) -> Vec<StepSnap> {
     let mut seen: Vec<(String, usize)> = Vec::new();
     steps
         .map(|(symbol, description, clause, value)| {
@@ -103,13 +101,7 @@ fn keyed_steps<'a>(
                     1
                 }
             };
-            StepSnap {
-                key: format!("{base} #{n}"),
-                symbol,
-                description,
-                clause,
-                value,
-            }
+            StepSnap { key: format!("{base} #{n}"), symbol, description, clause, value }
         })
         .collect()
 }
@@ -121,22 +113,15 @@ fn part_from_result(c: &ComponentResult) -> PartSnap {
 fn part_from(id: &str, steps: &[crate::calc::Step], checks: &[crate::calc::Check]) -> PartSnap {
     PartSnap {
         id: id.to_string(),
-        steps: keyed_steps(steps.iter().filter(|s| s.clause != "input").map(|s| {
-            (
-                s.symbol.clone(),
-                s.description.clone(),
-                s.clause.clone(),
-                s.quantity,
-            )
-        })),
+        steps: keyed_steps(
+            steps
+                .iter()
+                .filter(|s| s.clause != "input")
+                .map(|s| (s.symbol.clone(), s.description.clone(), s.clause.clone(), s.quantity)),
+        ),
         checks: checks
             .iter()
-            .map(|k| CheckSnap {
-                name: k.name.clone(),
-                clause: k.clause.clone(),
-                pass: k.pass,
-                margin: k.margin,
-            })
+            .map(|k| CheckSnap { name: k.name.clone(), clause: k.clause.clone(), pass: k.pass, margin: k.margin })
             .collect(),
     }
 }
@@ -152,24 +137,12 @@ impl Snapshot {
         let q = Value::Quantity;
         let mut inputs: Vec<(String, Value)> = vec![
             ("rule set".into(), Value::Text(d.document.rules.clone())),
-            (
-                "code edition".into(),
-                Value::Text(d.document.edition.clone()),
-            ),
+            ("code edition".into(), Value::Text(d.document.edition.clone())),
             ("report units".into(), Value::Text(d.units.name().into())),
             ("design pressure".into(), q(d.conditions.pressure)),
             ("design temperature".into(), q(d.conditions.temperature)),
-            (
-                "corrosion allowance".into(),
-                q(d.conditions.corrosion_allowance),
-            ),
-            (
-                "liquid density".into(),
-                d.conditions
-                    .liquid_density
-                    .map(q)
-                    .unwrap_or_else(|| Value::Text("none".into())),
-            ),
+            ("corrosion allowance".into(), q(d.conditions.corrosion_allowance)),
+            ("liquid density".into(), d.conditions.liquid_density.map(q).unwrap_or_else(|| Value::Text("none".into()))),
         ];
         for (key, m) in &d.materials {
             let k = |s: &str| format!("material {key}: {s}");
@@ -186,15 +159,11 @@ impl Snapshot {
                 Diameter::Inside(v) => inputs.push((k("inside diameter"), q(v))),
                 Diameter::Outside(v) => inputs.push((k("outside diameter"), q(v))),
             }
-            let opt =
-                |v: Option<Quantity>| v.map(q).unwrap_or_else(|| Value::Text("not given".into()));
+            let opt = |v: Option<Quantity>| v.map(q).unwrap_or_else(|| Value::Text("not given".into()));
             inputs.push((k("nominal thickness"), opt(c.nominal_thickness)));
             inputs.push((k("joint efficiency"), Value::Number(c.joint_efficiency)));
             if matches!(c.kind, ComponentKind::Cylinder) {
-                inputs.push((
-                    k("circumferential joint efficiency"),
-                    Value::Number(c.circumferential_joint_efficiency),
-                ));
+                inputs.push((k("circumferential joint efficiency"), Value::Number(c.circumferential_joint_efficiency)));
             }
             inputs.push((k("liquid head"), q(c.liquid_head)));
             if let Some(l) = c.length {
@@ -209,22 +178,12 @@ impl Snapshot {
                 ComponentKind::EllipsoidalHead { aspect_ratio } => {
                     inputs.push((k("aspect ratio D/2h"), Value::Number(*aspect_ratio)));
                 }
-                ComponentKind::TorisphericalHead {
-                    crown_radius,
-                    knuckle_radius,
-                    shape,
-                } => {
-                    inputs.push((
-                        k("shape"),
-                        Value::Text(shape.map(|s| s.name()).unwrap_or("radii given").into()),
-                    ));
+                ComponentKind::TorisphericalHead { crown_radius, knuckle_radius, shape } => {
+                    inputs.push((k("shape"), Value::Text(shape.map(|s| s.name()).unwrap_or("radii given").into())));
                     inputs.push((k("crown radius"), q(*crown_radius)));
                     inputs.push((k("knuckle radius"), q(*knuckle_radius)));
                 }
-                ComponentKind::ConicalSection {
-                    small_diameter,
-                    half_apex_angle,
-                } => {
+                ComponentKind::ConicalSection { small_diameter, half_apex_angle } => {
                     inputs.push((k("small-end diameter"), q(*small_diameter)));
                     inputs.push((k("half-apex angle"), q(*half_apex_angle)));
                 }
@@ -237,15 +196,9 @@ impl Snapshot {
         let v = &calc.vessel;
         let summary = vec![
             ("vessel MAWP at the top".into(), q(v.mawp)),
-            (
-                "governing component".into(),
-                Value::Text(v.governing_component.clone()),
-            ),
+            ("governing component".into(), Value::Text(v.governing_component.clone())),
             ("hydrostatic test pressure".into(), q(v.hydrotest_pressure)),
-            (
-                "pneumatic test pressure".into(),
-                q(v.pneumatic_test_pressure),
-            ),
+            ("pneumatic test pressure".into(), q(v.pneumatic_test_pressure)),
             ("status".into(), status_word(calc.acceptable())),
         ];
         Snapshot {
@@ -263,17 +216,10 @@ impl Snapshot {
     /// each component recorded.
     pub fn from_results(v: &Json) -> Result<Snapshot, String> {
         if v["format"] != crate::results::FORMAT {
-            return Err(format!(
-                "not a results file of format `{}`",
-                crate::results::FORMAT
-            ));
+            return Err(format!("not a results file of format `{}`", crate::results::FORMAT));
         }
         let text = |x: &Json| x.as_str().unwrap_or("").to_string();
-        let units = if v["report_units"] == "US" {
-            UnitSystem::Us
-        } else {
-            UnitSystem::Si
-        };
+        let units = if v["report_units"] == "US" { UnitSystem::Us } else { UnitSystem::Si };
         let fixed = |x: &Json, kind: Kind| -> Value {
             match x.as_f64() {
                 Some(n) => Value::Quantity(from_json_unit(n, kind)),
@@ -283,27 +229,12 @@ impl Snapshot {
         let design = &v["design"];
         let mut inputs = vec![
             ("rule set".into(), Value::Text(text(&v["rules"]["id"]))),
-            (
-                "code edition".into(),
-                Value::Text(text(&v["rules"]["edition"])),
-            ),
+            ("code edition".into(), Value::Text(text(&v["rules"]["edition"]))),
             ("report units".into(), Value::Text(units.name().into())),
-            (
-                "design pressure".into(),
-                fixed(&design["pressure"], Kind::Pressure),
-            ),
-            (
-                "design temperature".into(),
-                fixed(&design["temperature"], Kind::Temperature),
-            ),
-            (
-                "corrosion allowance".into(),
-                fixed(&design["corrosion_allowance"], Kind::Length),
-            ),
-            (
-                "liquid density".into(),
-                fixed(&design["liquid_density"], Kind::Density),
-            ),
+            ("design pressure".into(), fixed(&design["pressure"], Kind::Pressure)),
+            ("design temperature".into(), fixed(&design["temperature"], Kind::Temperature)),
+            ("corrosion allowance".into(), fixed(&design["corrosion_allowance"], Kind::Length)),
+            ("liquid density".into(), fixed(&design["liquid_density"], Kind::Density)),
         ];
         let mut parts = Vec::new();
         let empty = Vec::new();
@@ -329,10 +260,7 @@ impl Snapshot {
                 .unwrap_or(&empty)
                 .iter()
                 .map(|k| {
-                    let kind = k["unit"]
-                        .as_str()
-                        .and_then(kind_from_unit)
-                        .unwrap_or(Kind::Dimensionless);
+                    let kind = k["unit"].as_str().and_then(kind_from_unit).unwrap_or(Kind::Dimensionless);
                     CheckSnap {
                         name: text(&k["name"]),
                         clause: text(&k["clause"]),
@@ -358,12 +286,7 @@ impl Snapshot {
             }
             parts.push(PartSnap {
                 id: id.clone(),
-                steps: keyed_steps(
-                    steps
-                        .into_iter()
-                        .filter(|s| !s.4)
-                        .map(|(a, b, c, d, _)| (a, b, c, d)),
-                ),
+                steps: keyed_steps(steps.into_iter().filter(|s| !s.4).map(|(a, b, c, d, _)| (a, b, c, d))),
                 checks: read_checks(&c["checks"]),
             });
         }
@@ -371,30 +294,15 @@ impl Snapshot {
         parts.push(PartSnap {
             id: "vessel".into(),
             steps: keyed_steps(
-                read_steps(&ves["steps"])
-                    .into_iter()
-                    .filter(|s| !s.4)
-                    .map(|(a, b, c, d, _)| (a, b, c, d)),
+                read_steps(&ves["steps"]).into_iter().filter(|s| !s.4).map(|(a, b, c, d, _)| (a, b, c, d)),
             ),
             checks: read_checks(&ves["checks"]),
         });
         let summary = vec![
-            (
-                "vessel MAWP at the top".into(),
-                fixed(&ves["mawp"], Kind::Pressure),
-            ),
-            (
-                "governing component".into(),
-                Value::Text(text(&ves["governing_component"])),
-            ),
-            (
-                "hydrostatic test pressure".into(),
-                fixed(&ves["hydrotest_pressure"], Kind::Pressure),
-            ),
-            (
-                "pneumatic test pressure".into(),
-                fixed(&ves["pneumatic_test_pressure"], Kind::Pressure),
-            ),
+            ("vessel MAWP at the top".into(), fixed(&ves["mawp"], Kind::Pressure)),
+            ("governing component".into(), Value::Text(text(&ves["governing_component"]))),
+            ("hydrostatic test pressure".into(), fixed(&ves["hydrotest_pressure"], Kind::Pressure)),
+            ("pneumatic test pressure".into(), fixed(&ves["pneumatic_test_pressure"], Kind::Pressure)),
             ("status".into(), status_word(v["status"] == "acceptable")),
         ];
         Ok(Snapshot {
@@ -585,10 +493,7 @@ fn same_value(a: &Value, b: &Value) -> bool {
 
 /// Compares two evaluated cases.
 pub fn diff_cases(old: &Evaluated, new: &Evaluated) -> Diff {
-    diff_snapshots(
-        &Snapshot::from_evaluated(old),
-        &Snapshot::from_evaluated(new),
-    )
+    diff_snapshots(&Snapshot::from_evaluated(old), &Snapshot::from_evaluated(new))
 }
 
 /// Compares two snapshots (take both from the same kind of source, so that
@@ -598,39 +503,19 @@ pub fn diff_snapshots(old: &Snapshot, new: &Snapshot) -> Diff {
     for (k, nv) in &new.inputs {
         match old.inputs.iter().find(|(ok, _)| ok == k) {
             Some((_, ov)) if same_value(ov, nv) => {}
-            Some((_, ov)) => inputs.push(InputChange {
-                key: k.clone(),
-                old: Some(ov.clone()),
-                new: Some(nv.clone()),
-            }),
-            None => inputs.push(InputChange {
-                key: k.clone(),
-                old: None,
-                new: Some(nv.clone()),
-            }),
+            Some((_, ov)) => inputs.push(InputChange { key: k.clone(), old: Some(ov.clone()), new: Some(nv.clone()) }),
+            None => inputs.push(InputChange { key: k.clone(), old: None, new: Some(nv.clone()) }),
         }
     }
     for (k, ov) in &old.inputs {
         if !new.inputs.iter().any(|(nk, _)| nk == k) {
-            inputs.push(InputChange {
-                key: k.clone(),
-                old: Some(ov.clone()),
-                new: None,
-            });
+            inputs.push(InputChange { key: k.clone(), old: Some(ov.clone()), new: None });
         }
     }
-    let removed_parts = old
-        .parts
-        .iter()
-        .filter(|p| !new.parts.iter().any(|n| n.id == p.id))
-        .map(|p| p.id.clone())
-        .collect();
-    let added_parts = new
-        .parts
-        .iter()
-        .filter(|p| !old.parts.iter().any(|o| o.id == p.id))
-        .map(|p| p.id.clone())
-        .collect();
+    let removed_parts =
+        old.parts.iter().filter(|p| !new.parts.iter().any(|n| n.id == p.id)).map(|p| p.id.clone()).collect();
+    let added_parts =
+        new.parts.iter().filter(|p| !old.parts.iter().any(|o| o.id == p.id)).map(|p| p.id.clone()).collect();
     let mut steps = Vec::new();
     let mut flips = Vec::new();
     let mut other_checks = Vec::new();
@@ -651,11 +536,7 @@ pub fn diff_snapshots(old: &Snapshot, new: &Snapshot) -> Diff {
                 });
             }
         }
-        for os in op
-            .steps
-            .iter()
-            .filter(|o| !np.steps.iter().any(|n| n.key == o.key))
-        {
+        for os in op.steps.iter().filter(|o| !np.steps.iter().any(|n| n.key == o.key)) {
             steps.push(StepChange {
                 part: np.id.clone(),
                 symbol: os.symbol.clone(),
@@ -682,11 +563,7 @@ pub fn diff_snapshots(old: &Snapshot, new: &Snapshot) -> Diff {
                 other_checks.push(change);
             }
         }
-        for oc in op
-            .checks
-            .iter()
-            .filter(|o| !np.checks.iter().any(|n| n.name == o.name))
-        {
+        for oc in op.checks.iter().filter(|o| !np.checks.iter().any(|n| n.name == o.name)) {
             other_checks.push(CheckChange {
                 part: np.id.clone(),
                 name: oc.name.clone(),
@@ -704,11 +581,7 @@ pub fn diff_snapshots(old: &Snapshot, new: &Snapshot) -> Diff {
         .iter()
         .filter_map(|(k, nv)| {
             let (_, ov) = old.summary.iter().find(|(ok, _)| ok == k)?;
-            (!same_value(ov, nv)).then(|| SummaryChange {
-                item: k.clone(),
-                old: ov.clone(),
-                new: nv.clone(),
-            })
+            (!same_value(ov, nv)).then(|| SummaryChange { item: k.clone(), old: ov.clone(), new: nv.clone() })
         })
         .collect();
     Diff {
@@ -735,8 +608,7 @@ fn show_value(u: UnitSystem, v: &Value) -> String {
 }
 
 fn show_opt(u: UnitSystem, v: Option<&Value>) -> String {
-    v.map(|v| show_value(u, v))
-        .unwrap_or_else(|| "(absent)".into())
+    v.map(|v| show_value(u, v)).unwrap_or_else(|| "(absent)".into())
 }
 
 fn show_q(u: UnitSystem, q: Option<Quantity>) -> String {
@@ -771,14 +643,8 @@ fn summary_rel(c: &SummaryChange) -> Option<f64> {
 
 fn heading(d: &Diff) -> String {
     match &d.old_number {
-        Some(o) => format!(
-            "{o} revision {} -> {} revision {}",
-            d.old_revision, d.number, d.new_revision
-        ),
-        None => format!(
-            "{} revision {} -> revision {}",
-            d.number, d.old_revision, d.new_revision
-        ),
+        Some(o) => format!("{o} revision {} -> {} revision {}", d.old_revision, d.number, d.new_revision),
+        None => format!("{} revision {} -> revision {}", d.number, d.old_revision, d.new_revision),
     }
 }
 
@@ -799,12 +665,7 @@ pub fn diff_text(d: &Diff) -> String {
             out.push_str(&format!("  component {p}: removed\n"));
         }
         for c in &d.inputs {
-            out.push_str(&format!(
-                "  {}: {} -> {}\n",
-                c.key,
-                show_opt(u, c.old.as_ref()),
-                show_opt(u, c.new.as_ref())
-            ));
+            out.push_str(&format!("  {}: {} -> {}\n", c.key, show_opt(u, c.old.as_ref()), show_opt(u, c.new.as_ref())));
         }
     }
     if !d.checks.is_empty() {
@@ -840,15 +701,8 @@ pub fn diff_text(d: &Diff) -> String {
     if !d.summary.is_empty() {
         out.push_str("\nvessel summary\n");
         for c in &d.summary {
-            let rel = summary_rel(c)
-                .map(|r| format!(" ({})", show_rel(Some(r))))
-                .unwrap_or_default();
-            out.push_str(&format!(
-                "  {}: {} -> {}{rel}\n",
-                c.item,
-                show_value(u, &c.old),
-                show_value(u, &c.new)
-            ));
+            let rel = summary_rel(c).map(|r| format!(" ({})", show_rel(Some(r)))).unwrap_or_default();
+            out.push_str(&format!("  {}: {} -> {}{rel}\n", c.item, show_value(u, &c.old), show_value(u, &c.new)));
         }
     }
     out
@@ -866,10 +720,7 @@ pub fn diff_markdown(d: &Diff) -> String {
     let new = &d.new_revision;
     let mut out = format!("## Changes since revision {old}\n\n");
     if let Some(o) = &d.old_number {
-        out.push_str(&format!(
-            "Compared with document {} revision {old}.\n\n",
-            cell(o)
-        ));
+        out.push_str(&format!("Compared with document {} revision {old}.\n\n", cell(o)));
     }
     if d.is_empty() {
         out.push_str("No input, result or check changed.\n");
@@ -885,10 +736,7 @@ pub fn diff_markdown(d: &Diff) -> String {
             out.push_str(&format!("| component {} | (absent) | added |\n", cell(p)));
         }
         for p in &d.removed_parts {
-            out.push_str(&format!(
-                "| component {} | present | (removed) |\n",
-                cell(p)
-            ));
+            out.push_str(&format!("| component {} | present | (removed) |\n", cell(p)));
         }
         for c in &d.inputs {
             out.push_str(&format!(
@@ -954,9 +802,7 @@ pub fn diff_markdown(d: &Diff) -> String {
             cell(new)
         ));
         for c in &d.summary {
-            let rel = summary_rel(c)
-                .map(|r| show_rel(Some(r)))
-                .unwrap_or_default();
+            let rel = summary_rel(c).map(|r| show_rel(Some(r))).unwrap_or_default();
             out.push_str(&format!(
                 "| {} | {} | {} | {rel} |\n",
                 cell(&c.item),

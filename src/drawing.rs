@@ -38,19 +38,11 @@ pub struct Stroke {
 impl Stroke {
     /// A solid black line of the given width (mm).
     pub fn solid(width: f64) -> Stroke {
-        Stroke {
-            width,
-            grey: 0.0,
-            dash: None,
-        }
+        Stroke { width, grey: 0.0, dash: None }
     }
     /// A dashed line of the given width, dash and gap (mm).
     pub fn dashed(width: f64, dash: f64, gap: f64) -> Stroke {
-        Stroke {
-            width,
-            grey: 0.0,
-            dash: Some((dash, gap)),
-        }
+        Stroke { width, grey: 0.0, dash: Some((dash, gap)) }
     }
     /// The same stroke in a grey level (0 black, 1 white).
     pub fn grey(mut self, grey: f64) -> Stroke {

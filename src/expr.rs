@@ -113,10 +113,7 @@ pub fn parse(text: &str) -> Result<Expr, ExprError> {
     let mut p = Parser { tokens, pos: 0 };
     let e = p.sum()?;
     if p.pos != p.tokens.len() {
-        return Err(ExprError(format!(
-            "unexpected `{:?}` in `{text}`",
-            p.tokens[p.pos]
-        )));
+        return Err(ExprError(format!("unexpected `{:?}` in `{text}`", p.tokens[p.pos])));
     }
     Ok(e)
 }
@@ -142,9 +139,7 @@ fn tokenize(text: &str) -> Result<Vec<Tok>, ExprError> {
                 i += 1;
             }
             let s: String = chars[start..i].iter().collect();
-            let v: f64 = s
-                .parse()
-                .map_err(|_| ExprError(format!("bad number `{s}`")))?;
+            let v: f64 = s.parse().map_err(|_| ExprError(format!("bad number `{s}`")))?;
             out.push(Tok::Num(v, s));
         } else if c.is_alphabetic() || c == '_' {
             let start = i;
@@ -216,17 +211,9 @@ impl Parser {
             match self.tokens.get(self.pos).cloned() {
                 Some(Tok::Num(v, s)) => {
                     self.pos += 1;
-                    return Ok(Expr::Bin(
-                        Op::Pow,
-                        Box::new(base),
-                        Box::new(Expr::Num(v, s)),
-                    ));
+                    return Ok(Expr::Bin(Op::Pow, Box::new(base), Box::new(Expr::Num(v, s))));
                 }
-                other => {
-                    return Err(ExprError(format!(
-                        "exponent must be a literal number, found {other:?}"
-                    )))
-                }
+                other => return Err(ExprError(format!("exponent must be a literal number, found {other:?}"))),
             }
         }
         Ok(base)
@@ -248,15 +235,10 @@ impl Parser {
                         args.push(self.sum()?);
                     }
                     if !self.eat(')') {
-                        return Err(ExprError(format!(
-                            "missing `)` after arguments of `{name}`"
-                        )));
+                        return Err(ExprError(format!("missing `)` after arguments of `{name}`")));
                     }
                     if args.len() != func.arity() {
-                        return Err(ExprError(format!(
-                            "`{name}` takes {} argument(s)",
-                            func.arity()
-                        )));
+                        return Err(ExprError(format!("`{name}` takes {} argument(s)", func.arity())));
                     }
                     Ok(Expr::Call(func, args))
                 } else {
@@ -271,9 +253,7 @@ impl Parser {
                 }
                 Ok(e)
             }
-            other => Err(ExprError(format!(
-                "expected a number, symbol or `(`, found {other:?}"
-            ))),
+            other => Err(ExprError(format!("expected a number, symbol or `(`, found {other:?}"))),
         }
     }
 }
@@ -294,25 +274,14 @@ impl Expr {
     /// Evaluates the expression, checking dimensions at every operation.
     pub fn eval(&self, env: &Env) -> Result<DimValue, ExprError> {
         Ok(match self {
-            Expr::Num(v, _) => DimValue {
-                value: *v,
-                dim: Dim::NONE,
-            },
+            Expr::Num(v, _) => DimValue { value: *v, dim: Dim::NONE },
             Expr::Var(name) => {
-                let q = env
-                    .get(name)
-                    .ok_or_else(|| ExprError(format!("symbol `{name}` has no value")))?;
-                DimValue {
-                    value: q.value,
-                    dim: q.kind.dim(),
-                }
+                let q = env.get(name).ok_or_else(|| ExprError(format!("symbol `{name}` has no value")))?;
+                DimValue { value: q.value, dim: q.kind.dim() }
             }
             Expr::Neg(e) => {
                 let v = e.eval(env)?;
-                DimValue {
-                    value: -v.value,
-                    dim: v.dim,
-                }
+                DimValue { value: -v.value, dim: v.dim }
             }
             Expr::Bin(op, a, b) => {
                 let x = a.eval(env)?;
@@ -320,26 +289,13 @@ impl Expr {
                 match op {
                     Op::Add | Op::Sub => {
                         if x.dim != y.dim {
-                            return Err(ExprError(format!(
-                                "adding unlike dimensions in `{}`",
-                                self.symbolic()
-                            )));
+                            return Err(ExprError(format!("adding unlike dimensions in `{}`", self.symbolic())));
                         }
-                        let value = if *op == Op::Add {
-                            x.value + y.value
-                        } else {
-                            x.value - y.value
-                        };
+                        let value = if *op == Op::Add { x.value + y.value } else { x.value - y.value };
                         DimValue { value, dim: x.dim }
                     }
-                    Op::Mul => DimValue {
-                        value: x.value * y.value,
-                        dim: x.dim.mul(y.dim),
-                    },
-                    Op::Div => DimValue {
-                        value: x.value / y.value,
-                        dim: x.dim.div(y.dim),
-                    },
+                    Op::Mul => DimValue { value: x.value * y.value, dim: x.dim.mul(y.dim) },
+                    Op::Div => DimValue { value: x.value / y.value, dim: x.dim.div(y.dim) },
                     Op::Pow => {
                         let n = y.value;
                         let dim = if x.dim == Dim::NONE {
@@ -352,10 +308,7 @@ impl Expr {
                                 self.symbolic()
                             )));
                         };
-                        DimValue {
-                            value: x.value.powf(n),
-                            dim,
-                        }
+                        DimValue { value: x.value.powf(n), dim }
                     }
                 }
             }
@@ -371,45 +324,23 @@ impl Expr {
                 match f {
                     Func::Sqrt | Func::Cbrt => {
                         let n = if *f == Func::Sqrt { 2 } else { 3 };
-                        let dim = x.dim.root(n).ok_or_else(|| {
-                            ExprError(format!("root of `{}` has no dimension", self.symbolic()))
-                        })?;
-                        let value = if n == 2 {
-                            x.value.sqrt()
-                        } else {
-                            x.value.cbrt()
-                        };
+                        let dim = x
+                            .dim
+                            .root(n)
+                            .ok_or_else(|| ExprError(format!("root of `{}` has no dimension", self.symbolic())))?;
+                        let value = if n == 2 { x.value.sqrt() } else { x.value.cbrt() };
                         DimValue { value, dim }
                     }
-                    Func::Cos => DimValue {
-                        value: angle_arg(x)?.cos(),
-                        dim: Dim::NONE,
-                    },
-                    Func::Sin => DimValue {
-                        value: angle_arg(x)?.sin(),
-                        dim: Dim::NONE,
-                    },
-                    Func::Tan => DimValue {
-                        value: angle_arg(x)?.tan(),
-                        dim: Dim::NONE,
-                    },
-                    Func::Atan => DimValue {
-                        value: angle_arg(x)?.atan(),
-                        dim: Dim::NONE,
-                    },
+                    Func::Cos => DimValue { value: angle_arg(x)?.cos(), dim: Dim::NONE },
+                    Func::Sin => DimValue { value: angle_arg(x)?.sin(), dim: Dim::NONE },
+                    Func::Tan => DimValue { value: angle_arg(x)?.tan(), dim: Dim::NONE },
+                    Func::Atan => DimValue { value: angle_arg(x)?.atan(), dim: Dim::NONE },
                     Func::Min | Func::Max => {
                         let y = args[1].eval(env)?;
                         if x.dim != y.dim {
-                            return Err(ExprError(format!(
-                                "comparing unlike dimensions in `{}`",
-                                self.symbolic()
-                            )));
+                            return Err(ExprError(format!("comparing unlike dimensions in `{}`", self.symbolic())));
                         }
-                        let value = if *f == Func::Min {
-                            x.value.min(y.value)
-                        } else {
-                            x.value.max(y.value)
-                        };
+                        let value = if *f == Func::Min { x.value.min(y.value) } else { x.value.max(y.value) };
                         DimValue { value, dim: x.dim }
                     }
                 }
@@ -494,28 +425,15 @@ impl Expr {
                         Expr::Num(_, s) if s == "3" => "³".to_string(),
                         other => format!("^{}", other.render_prec(leaf, 4, spaced)),
                     };
-                    let needs =
-                        !matches!(a.as_ref(), Expr::Var(_) | Expr::Num(..) | Expr::Call(..));
-                    let base = if needs && !base.starts_with('(') {
-                        format!("({base})")
-                    } else {
-                        base
-                    };
+                    let needs = !matches!(a.as_ref(), Expr::Var(_) | Expr::Num(..) | Expr::Call(..));
+                    let base = if needs && !base.starts_with('(') { format!("({base})") } else { base };
                     let s = format!("{base}{exp}");
                     return if ctx > 4 { format!("({s})") } else { s };
                 }
                 let left = a.render_prec(leaf, prec, spaced);
-                let right_ctx = if matches!(op, Op::Sub | Op::Div) {
-                    prec + 1
-                } else {
-                    prec
-                };
+                let right_ctx = if matches!(op, Op::Sub | Op::Div) { prec + 1 } else { prec };
                 let right = b.render_prec(leaf, right_ctx, spaced);
-                let sym = if *op == Op::Mul && spaced {
-                    " · "
-                } else {
-                    sym
-                };
+                let sym = if *op == Op::Mul && spaced { " · " } else { sym };
                 let s = format!("{left}{sym}{right}");
                 if prec < ctx {
                     format!("({s})")
@@ -524,10 +442,7 @@ impl Expr {
                 }
             }
             Expr::Call(f, args) => {
-                let inner: Vec<String> = args
-                    .iter()
-                    .map(|a| a.render_prec(leaf, 0, spaced))
-                    .collect();
+                let inner: Vec<String> = args.iter().map(|a| a.render_prec(leaf, 0, spaced)).collect();
                 format!("{}({})", f.name(), inner.join(", "))
             }
         }
@@ -580,10 +495,7 @@ mod tests {
         assert_eq!(v.dim, Dim::LENGTH);
         // Hand arithmetic: 1·903/(138·0.85 − 0.6) = 903/116.7 = 7.7378 mm.
         assert!((v.value * 1e3 - 903.0 / 116.7).abs() < 1e-9);
-        assert_eq!(
-            e.substituted(&en, UnitSystem::Si),
-            "1 MPa · 903 mm/(138 MPa · 0.85 − 0.6 · 1 MPa)"
-        );
+        assert_eq!(e.substituted(&en, UnitSystem::Si), "1 MPa · 903 mm/(138 MPa · 0.85 − 0.6 · 1 MPa)");
     }
 
     #[test]
@@ -593,30 +505,16 @@ mod tests {
         assert!(parse("sqrt(P)").unwrap().eval(&en).is_err());
         assert!(parse("cos(R)").unwrap().eval(&en).is_err());
         assert!(parse("R^0.5").unwrap().eval(&en).is_err());
-        assert_eq!(
-            parse("sqrt(R*R)").unwrap().eval(&en).unwrap().dim,
-            Dim::LENGTH
-        );
+        assert_eq!(parse("sqrt(R*R)").unwrap().eval(&en).unwrap().dim, Dim::LENGTH);
         assert!(parse("Q").unwrap().eval(&en).is_err());
     }
 
     #[test]
     fn renders_powers_roots_and_greek() {
         assert_eq!(parse("(2 + a^2)/6").unwrap().symbolic(), "(2 + a²)/6");
-        assert_eq!(
-            parse("(3 + sqrt(L/r))/4").unwrap().symbolic(),
-            "(3 + √(L/r))/4"
-        );
-        assert_eq!(
-            parse("P*D/(2*cos(alpha)*(S*E - 0.6*P))")
-                .unwrap()
-                .symbolic(),
-            "P·D/(2·cos(α)·(S·E − 0.6·P))"
-        );
-        assert_eq!(
-            parse("R_o*(Z^0.5 - 1)").unwrap().symbolic(),
-            "Ro·(Z^0.5 − 1)"
-        );
+        assert_eq!(parse("(3 + sqrt(L/r))/4").unwrap().symbolic(), "(3 + √(L/r))/4");
+        assert_eq!(parse("P*D/(2*cos(alpha)*(S*E - 0.6*P))").unwrap().symbolic(), "P·D/(2·cos(α)·(S·E − 0.6·P))");
+        assert_eq!(parse("R_o*(Z^0.5 - 1)").unwrap().symbolic(), "Ro·(Z^0.5 − 1)");
         assert_eq!(parse("a - (b - c)").unwrap().symbolic(), "a − (b − c)");
         assert_eq!(parse("a - b + c").unwrap().symbolic(), "a − b + c");
     }

@@ -8,14 +8,8 @@ use std::path::Path;
 /// Writes `bytes` to a temporary file beside `path`, syncs it, then renames
 /// it over `path`.
 pub fn write_atomic(path: &Path, bytes: &[u8]) -> std::io::Result<()> {
-    let dir = path
-        .parent()
-        .filter(|p| !p.as_os_str().is_empty())
-        .unwrap_or(Path::new("."));
-    let name = path
-        .file_name()
-        .map(|n| n.to_string_lossy().into_owned())
-        .unwrap_or_else(|| "out".into());
+    let dir = path.parent().filter(|p| !p.as_os_str().is_empty()).unwrap_or(Path::new("."));
+    let name = path.file_name().map(|n| n.to_string_lossy().into_owned()).unwrap_or_else(|| "out".into());
     let tmp = dir.join(format!(".{name}.{}.tmp", std::process::id()));
     let result = (|| {
         let mut f = std::fs::File::create(&tmp)?;

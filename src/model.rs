@@ -154,11 +154,7 @@ impl TorisphereShape {
 
     /// The case-file name.
     pub fn name(self) -> &'static str {
-        Self::ALL
-            .iter()
-            .find(|(_, s)| *s == self)
-            .map(|(n, _)| *n)
-            .unwrap_or("")
+        Self::ALL.iter().find(|(_, s)| *s == self).map(|(n, _)| *n).unwrap_or("")
     }
 
     /// Crown and knuckle radius as fractions of the reference diameter, and
@@ -231,14 +227,8 @@ impl ComponentKind {
 }
 
 /// Component type names accepted in case files.
-pub const COMPONENT_TYPES: &[&str] = &[
-    "cylinder",
-    "sphere",
-    "ellipsoidal-head",
-    "torispherical-head",
-    "hemispherical-head",
-    "conical-section",
-];
+pub const COMPONENT_TYPES: &[&str] =
+    &["cylinder", "sphere", "ellipsoidal-head", "torispherical-head", "hemispherical-head", "conical-section"];
 
 /// One input as written and as converted, for the component's inputs table.
 #[derive(Debug, Clone, PartialEq, Serialize)]
@@ -303,30 +293,19 @@ impl Reader {
                 Ok(q) => Some(q),
                 Err(e) => {
                     let (message, hint) = match &e {
-                        QuantityError::WrongKind { unit } => (
-                            format!(
-                                "`{key}` must be {}, but `{unit}` measures something else",
-                                kind.describe()
-                            ),
-                            None,
-                        ),
+                        QuantityError::WrongKind { unit } => {
+                            (format!("`{key}` must be {}, but `{unit}` measures something else", kind.describe()), None)
+                        }
                         QuantityError::NoUnit => (
                             format!("`{key}` has no unit"),
-                            Some(format!(
-                                "write the unit after the number, e.g. \"{}\"",
-                                example(kind)
-                            )),
+                            Some(format!("write the unit after the number, e.g. \"{}\"", example(kind))),
                         ),
-                        QuantityError::UnknownUnit(u) => {
-                            (format!("`{key}`: unknown unit `{u}`"), None)
-                        }
+                        QuantityError::UnknownUnit(u) => (format!("`{key}`: unknown unit `{u}`"), None),
                         QuantityError::NoNumber => (
                             format!("`{key}` does not start with a number"),
                             Some(format!("write e.g. \"{}\"", example(kind))),
                         ),
-                        QuantityError::NotFinite => {
-                            (format!("`{key}` is not a finite number"), None)
-                        }
+                        QuantityError::NotFinite => (format!("`{key}` is not a finite number"), None),
                     };
                     let mut d = Diagnostic::new(key, span, message).expected(kind.describe());
                     if let Some(h) = hint {
@@ -339,13 +318,9 @@ impl Reader {
             Scalar::Int(_) | Scalar::Float(_) if kind == Kind::Dimensionless => self.number(key, v),
             Scalar::Int(_) | Scalar::Float(_) => {
                 self.err(
-                    Diagnostic::new(
-                        key,
-                        span,
-                        format!("`{key}` is a bare number; a unit is required"),
-                    )
-                    .expected(format!("{} as a quoted string", kind.describe()))
-                    .hint(format!("write it as \"{}\"", example(kind))),
+                    Diagnostic::new(key, span, format!("`{key}` is a bare number; a unit is required"))
+                        .expected(format!("{} as a quoted string", kind.describe()))
+                        .hint(format!("write it as \"{}\"", example(kind))),
                 );
                 None
             }
@@ -369,8 +344,7 @@ impl Reader {
         };
         if !x.is_finite() {
             self.err(
-                Diagnostic::new(key, span_of(v), format!("`{key}` is not a finite number"))
-                    .expected("a finite number"),
+                Diagnostic::new(key, span_of(v), format!("`{key}` is not a finite number")).expected("a finite number"),
             );
             return None;
         }
@@ -382,12 +356,8 @@ impl Reader {
         let q = self.quantity(key, v, kind)?;
         if q.value <= 0.0 {
             self.err(
-                Diagnostic::new(
-                    key,
-                    span_of(v),
-                    format!("`{key}` must be greater than zero"),
-                )
-                .expected(format!("{} greater than zero", kind.describe())),
+                Diagnostic::new(key, span_of(v), format!("`{key}` must be greater than zero"))
+                    .expected(format!("{} greater than zero", kind.describe())),
             );
             return None;
         }
@@ -416,8 +386,7 @@ impl Reader {
     ) -> Option<&'a T> {
         if v.is_none() {
             self.err(
-                Diagnostic::new(key, table_span, format!("missing required key `{key}`"))
-                    .expected(what.to_string()),
+                Diagnostic::new(key, table_span, format!("missing required key `{key}`")).expected(what.to_string()),
             );
         }
         v.as_ref()
@@ -441,8 +410,7 @@ fn iso_date(key: &str, v: &Spanned<toml::Value>, r: &mut Reader) -> Option<Strin
         toml::Value::Datetime(d) => d.to_string(),
         _ => {
             r.err(
-                Diagnostic::new(key, span_of(v), format!("`{key}` must be a date"))
-                    .expected("an ISO date YYYY-MM-DD"),
+                Diagnostic::new(key, span_of(v), format!("`{key}` must be a date")).expected("an ISO date YYYY-MM-DD"),
             );
             return None;
         }
@@ -451,12 +419,8 @@ fn iso_date(key: &str, v: &Spanned<toml::Value>, r: &mut Reader) -> Option<Strin
         Some(text)
     } else {
         r.err(
-            Diagnostic::new(
-                key,
-                span_of(v),
-                format!("`{key}` is not a valid calendar date: `{text}`"),
-            )
-            .expected("an ISO date YYYY-MM-DD, e.g. 2026-11-20"),
+            Diagnostic::new(key, span_of(v), format!("`{key}` is not a valid calendar date: `{text}`"))
+                .expected("an ISO date YYYY-MM-DD, e.g. 2026-11-20"),
         );
         None
     }
@@ -487,9 +451,7 @@ pub fn valid_iso_date(s: &str) -> bool {
 }
 
 fn text_or_empty(v: &Option<Spanned<String>>) -> String {
-    v.as_ref()
-        .map(|s| s.get_ref().trim().to_string())
-        .unwrap_or_default()
+    v.as_ref().map(|s| s.get_ref().trim().to_string()).unwrap_or_default()
 }
 
 impl Design {
@@ -530,12 +492,7 @@ impl Design {
             }
         }
         let revision = r
-            .required(
-                "document.revision",
-                &doc.revision,
-                doc_span.clone(),
-                "the revision, e.g. \"B\"",
-            )
+            .required("document.revision", &doc.revision, doc_span.clone(), "the revision, e.g. \"B\"")
             .map(|s| s.get_ref().trim().to_string());
         if let (Some(n), Some(s)) = (&revision, &doc.revision) {
             if n.is_empty() || n.contains(['/', '\\']) {
@@ -547,28 +504,15 @@ impl Design {
             }
         }
         let date = r
-            .required(
-                "document.date",
-                &doc.date,
-                doc_span.clone(),
-                "an ISO date YYYY-MM-DD",
-            )
+            .required("document.date", &doc.date, doc_span.clone(), "an ISO date YYYY-MM-DD")
             .cloned()
             .and_then(|d| iso_date("document.date", &d, &mut r));
-        let rules = doc
-            .rules
-            .as_ref()
-            .map(|s| s.get_ref().clone())
-            .unwrap_or_else(|| "asme-viii-1".to_string());
+        let rules = doc.rules.as_ref().map(|s| s.get_ref().clone()).unwrap_or_else(|| "asme-viii-1".to_string());
         if let Some(s) = &doc.rules {
             if !RULE_SETS.contains(&s.get_ref().as_str()) {
                 r.err(
-                    Diagnostic::new(
-                        "document.rules",
-                        span_of(s),
-                        format!("unknown rule set `{}`", s.get_ref()),
-                    )
-                    .expected(format!("one of: {}", RULE_SETS.join(", "))),
+                    Diagnostic::new("document.rules", span_of(s), format!("unknown rule set `{}`", s.get_ref()))
+                        .expected(format!("one of: {}", RULE_SETS.join(", "))),
                 );
             }
         }
@@ -597,12 +541,8 @@ impl Design {
                 "US" | "us" => UnitSystem::Us,
                 other => {
                     r.err(
-                        Diagnostic::new(
-                            "document.units",
-                            span_of(s),
-                            format!("unknown unit system `{other}`"),
-                        )
-                        .expected("\"SI\" (mm, MPa, degC, kg) or \"US\" (in, psi, degF, lb)"),
+                        Diagnostic::new("document.units", span_of(s), format!("unknown unit system `{other}`"))
+                            .expected("\"SI\" (mm, MPa, degC, kg) or \"US\" (in, psi, degF, lb)"),
                     );
                     UnitSystem::Si
                 }
@@ -642,30 +582,19 @@ impl Design {
             )
             .and_then(|v| r.positive("design.internal_pressure", v, Kind::Pressure));
         let temperature = r
-            .required(
-                "design.temperature",
-                &d.temperature,
-                d_span.clone(),
-                "the design temperature, e.g. \"150 degC\"",
-            )
+            .required("design.temperature", &d.temperature, d_span.clone(), "the design temperature, e.g. \"150 degC\"")
             .and_then(|v| r.quantity("design.temperature", v, Kind::Temperature));
         if let (Some(t), Some(v)) = (temperature, &d.temperature) {
             if t.value < -273.15 {
-                r.err(Diagnostic::new(
-                    "design.temperature",
-                    span_of(v),
-                    "`design.temperature` is below absolute zero",
-                ));
+                r.err(Diagnostic::new("design.temperature", span_of(v), "`design.temperature` is below absolute zero"));
             }
         }
         let corrosion = match &d.corrosion_allowance {
             Some(v) => r.non_negative("design.corrosion_allowance", v, Kind::Length),
             None => Some(Quantity::mm(0.0)),
         };
-        let liquid_density = d
-            .liquid_density
-            .as_ref()
-            .and_then(|v| r.positive("design.liquid_density", v, Kind::Density));
+        let liquid_density =
+            d.liquid_density.as_ref().and_then(|v| r.positive("design.liquid_density", v, Kind::Density));
 
         // Materials.
         let mut materials = BTreeMap::new();
@@ -674,12 +603,7 @@ impl Design {
             let m = m.get_ref();
             let k = |f: &str| format!("materials.{key}.{f}");
             let name = r
-                .required(
-                    &k("name"),
-                    &m.name,
-                    span.clone(),
-                    "the specification and grade, e.g. \"SA-516 Grade 70\"",
-                )
+                .required(&k("name"), &m.name, span.clone(), "the specification and grade, e.g. \"SA-516 Grade 70\"")
                 .map(|s| s.get_ref().clone());
             let s = r
                 .required(
@@ -700,13 +624,7 @@ impl Design {
             if let (Some(name), Some(s), Some(st), Some(rho)) = (name, s, st, rho) {
                 materials.insert(
                     key.clone(),
-                    Material {
-                        key: key.clone(),
-                        name,
-                        allowable_stress: s,
-                        test_allowable_stress: st,
-                        density: rho,
-                    },
+                    Material { key: key.clone(), name, allowable_stress: s, test_allowable_stress: st, density: rho },
                 );
             }
         }
@@ -723,15 +641,9 @@ impl Design {
         let mut seen: BTreeMap<String, ()> = BTreeMap::new();
         for (i, c) in case.component.iter().enumerate() {
             let span = span_of(c);
-            if let Some(comp) = read_component(
-                &mut r,
-                i,
-                c.get_ref(),
-                span,
-                &case.materials,
-                corrosion,
-                liquid_density.is_some(),
-            ) {
+            if let Some(comp) =
+                read_component(&mut r, i, c.get_ref(), span, &case.materials, corrosion, liquid_density.is_some())
+            {
                 if seen.insert(comp.id.clone(), ()).is_some() {
                     let s = c.get_ref().id.as_ref().map(span_of).unwrap_or(None);
                     r.err(
@@ -749,19 +661,12 @@ impl Design {
         }
 
         if !r.errors.is_empty() {
-            r.errors
-                .sort_by_key(|d| d.span.as_ref().map(|s| s.start).unwrap_or(usize::MAX));
+            r.errors.sort_by_key(|d| d.span.as_ref().map(|s| s.start).unwrap_or(usize::MAX));
             return Err(r.errors);
         }
         // Every Option below is Some when no error was recorded.
-        let (
-            Some(number),
-            Some(revision),
-            Some(date),
-            Some(pressure),
-            Some(temperature),
-            Some(corrosion),
-        ) = (number, revision, date, pressure, temperature, corrosion)
+        let (Some(number), Some(revision), Some(date), Some(pressure), Some(temperature), Some(corrosion)) =
+            (number, revision, date, pressure, temperature, corrosion)
         else {
             return Err(vec![Diagnostic::new("", None, "incomplete case file")]);
         };
@@ -777,12 +682,7 @@ impl Design {
                 history,
             },
             sign_off,
-            conditions: Conditions {
-                pressure,
-                temperature,
-                corrosion_allowance: corrosion,
-                liquid_density,
-            },
+            conditions: Conditions { pressure, temperature, corrosion_allowance: corrosion, liquid_density },
             materials,
             components,
             units,
@@ -802,19 +702,8 @@ fn allowed_keys(kind: &str) -> &'static [&'static str] {
         "sphere" => &[],
         "hemispherical-head" => &["straight_flange", "thinning_allowance"],
         "ellipsoidal-head" => &["aspect_ratio", "straight_flange", "thinning_allowance"],
-        "torispherical-head" => &[
-            "crown_radius",
-            "knuckle_radius",
-            "shape",
-            "straight_flange",
-            "thinning_allowance",
-        ],
-        "conical-section" => &[
-            "small_inside_diameter",
-            "small_outside_diameter",
-            "half_apex_angle",
-            "length",
-        ],
+        "torispherical-head" => &["crown_radius", "knuckle_radius", "shape", "straight_flange", "thinning_allowance"],
+        "conical-section" => &["small_inside_diameter", "small_outside_diameter", "half_apex_angle", "length"],
         _ => &[],
     }
 }
@@ -827,39 +716,16 @@ fn type_specific_keys(c: &RawComponent) -> Vec<(&'static str, Option<Range<usize
         }
     };
     add("length", c.length.as_ref().map(|x| x.span()));
-    add(
-        "circumferential_joint_efficiency",
-        c.circumferential_joint_efficiency
-            .as_ref()
-            .map(|x| x.span()),
-    );
-    add(
-        "straight_flange",
-        c.straight_flange.as_ref().map(|x| x.span()),
-    );
-    add(
-        "thinning_allowance",
-        c.thinning_allowance.as_ref().map(|x| x.span()),
-    );
+    add("circumferential_joint_efficiency", c.circumferential_joint_efficiency.as_ref().map(|x| x.span()));
+    add("straight_flange", c.straight_flange.as_ref().map(|x| x.span()));
+    add("thinning_allowance", c.thinning_allowance.as_ref().map(|x| x.span()));
     add("aspect_ratio", c.aspect_ratio.as_ref().map(|x| x.span()));
     add("crown_radius", c.crown_radius.as_ref().map(|x| x.span()));
-    add(
-        "knuckle_radius",
-        c.knuckle_radius.as_ref().map(|x| x.span()),
-    );
+    add("knuckle_radius", c.knuckle_radius.as_ref().map(|x| x.span()));
     add("shape", c.shape.as_ref().map(|x| x.span()));
-    add(
-        "small_inside_diameter",
-        c.small_inside_diameter.as_ref().map(|x| x.span()),
-    );
-    add(
-        "small_outside_diameter",
-        c.small_outside_diameter.as_ref().map(|x| x.span()),
-    );
-    add(
-        "half_apex_angle",
-        c.half_apex_angle.as_ref().map(|x| x.span()),
-    );
+    add("small_inside_diameter", c.small_inside_diameter.as_ref().map(|x| x.span()));
+    add("small_outside_diameter", c.small_outside_diameter.as_ref().map(|x| x.span()));
+    add("half_apex_angle", c.half_apex_angle.as_ref().map(|x| x.span()));
     v
 }
 
@@ -876,54 +742,29 @@ fn read_component(
     let before = r.errors.len();
     let mut inputs = Vec::new();
     let mut echo = |key: &str, v: &Value, q: Quantity| {
-        inputs.push(InputEcho {
-            key: key.to_string(),
-            given: v.get_ref().as_written(),
-            value: q,
-        })
+        inputs.push(InputEcho { key: key.to_string(), given: v.get_ref().as_written(), value: q })
     };
 
     let id = r
-        .required(
-            &k("id"),
-            &c.id,
-            span.clone(),
-            "a unique id such as \"shell\"",
-        )
+        .required(&k("id"), &c.id, span.clone(), "a unique id such as \"shell\"")
         .map(|s| s.get_ref().trim().to_string());
     if let (Some(idv), Some(s)) = (&id, &c.id) {
-        let ok = !idv.is_empty()
-            && idv
-                .chars()
-                .all(|ch| ch.is_alphanumeric() || "-_.".contains(ch));
+        let ok = !idv.is_empty() && idv.chars().all(|ch| ch.is_alphanumeric() || "-_.".contains(ch));
         if !ok {
             r.err(
-                Diagnostic::new(
-                    k("id"),
-                    Some(s.span()),
-                    format!("component id `{idv}` is not usable"),
-                )
-                .expected("letters, digits, `-`, `_` or `.`"),
+                Diagnostic::new(k("id"), Some(s.span()), format!("component id `{idv}` is not usable"))
+                    .expected("letters, digits, `-`, `_` or `.`"),
             );
         }
     }
     let kind_name = r
-        .required(
-            &k("type"),
-            &c.kind,
-            span.clone(),
-            &format!("one of: {}", COMPONENT_TYPES.join(", ")),
-        )
+        .required(&k("type"), &c.kind, span.clone(), &format!("one of: {}", COMPONENT_TYPES.join(", ")))
         .map(|s| s.get_ref().clone());
     if let (Some(t), Some(s)) = (&kind_name, &c.kind) {
         if !COMPONENT_TYPES.contains(&t.as_str()) {
             r.err(
-                Diagnostic::new(
-                    k("type"),
-                    Some(s.span()),
-                    format!("unknown component type `{t}`"),
-                )
-                .expected(format!("one of: {}", COMPONENT_TYPES.join(", "))),
+                Diagnostic::new(k("type"), Some(s.span()), format!("unknown component type `{t}`"))
+                    .expected(format!("one of: {}", COMPONENT_TYPES.join(", "))),
             );
             return None;
         }
@@ -932,39 +773,25 @@ fn read_component(
     for (key, s) in type_specific_keys(c) {
         if !allowed_keys(&kind_name).contains(&key) {
             r.err(
-                Diagnostic::new(
-                    k(key),
-                    s,
-                    format!("`{key}` does not apply to a {kind_name}"),
-                )
-                .hint("remove the key, or check the component's `type`"),
+                Diagnostic::new(k(key), s, format!("`{key}` does not apply to a {kind_name}"))
+                    .hint("remove the key, or check the component's `type`"),
             );
         }
     }
 
     let material = r
-        .required(
-            &k("material"),
-            &c.material,
-            span.clone(),
-            "a key of a [materials.<key>] table",
-        )
+        .required(&k("material"), &c.material, span.clone(), "a key of a [materials.<key>] table")
         .map(|s| s.get_ref().clone());
     if let (Some(m), Some(s)) = (&material, &c.material) {
         if !materials.contains_key(m) {
             let known: Vec<&str> = materials.keys().map(String::as_str).collect();
-            r.err(
-                Diagnostic::new(
-                    k("material"),
-                    Some(s.span()),
-                    format!("unknown material `{m}`"),
-                )
-                .expected(if known.is_empty() {
+            r.err(Diagnostic::new(k("material"), Some(s.span()), format!("unknown material `{m}`")).expected(
+                if known.is_empty() {
                     "a [materials.<key>] table".to_string()
                 } else {
                     format!("one of: {}", known.join(", "))
-                }),
-            );
+                },
+            ));
         }
     }
 
@@ -973,12 +800,10 @@ fn read_component(
             echo("inside_diameter", v, q);
             Diameter::Inside(q)
         }),
-        (None, Some(v)) => r
-            .positive(&k("outside_diameter"), v, Kind::Length)
-            .map(|q| {
-                echo("outside_diameter", v, q);
-                Diameter::Outside(q)
-            }),
+        (None, Some(v)) => r.positive(&k("outside_diameter"), v, Kind::Length).map(|q| {
+            echo("outside_diameter", v, q);
+            Diameter::Outside(q)
+        }),
         (Some(_), Some(v)) => {
             r.err(
                 Diagnostic::new(
@@ -1012,25 +837,29 @@ fn read_component(
         q
     });
     let ca = match &c.corrosion_allowance {
-        Some(v) => r
-            .non_negative(&k("corrosion_allowance"), v, Kind::Length)
-            .inspect(|q| echo("corrosion_allowance", v, *q)),
+        Some(v) => {
+            r.non_negative(&k("corrosion_allowance"), v, Kind::Length).inspect(|q| echo("corrosion_allowance", v, *q))
+        }
         None => default_ca,
     };
     let thinning = match &c.thinning_allowance {
-        Some(v) => r
-            .non_negative(&k("thinning_allowance"), v, Kind::Length)
-            .inspect(|q| echo("thinning_allowance", v, *q)),
+        Some(v) => {
+            r.non_negative(&k("thinning_allowance"), v, Kind::Length).inspect(|q| echo("thinning_allowance", v, *q))
+        }
         None => Some(Quantity::mm(0.0)),
     };
     if let (Some(t), Some(ca), Some(th)) = (nominal, ca, thinning) {
         if ca.value + th.value >= t.value {
-            let s = c
-                .corrosion_allowance
-                .as_ref()
-                .map(|v| v.span())
-                .or(c.nominal_thickness.as_ref().map(|v| v.span()));
-            r.err(Diagnostic::new(k("corrosion_allowance"), s, "the corrosion allowance (plus thinning allowance) is at or above the nominal thickness").expected("a corrosion allowance smaller than the nominal thickness").hint("check `nominal_thickness` and `corrosion_allowance`"));
+            let s = c.corrosion_allowance.as_ref().map(|v| v.span()).or(c.nominal_thickness.as_ref().map(|v| v.span()));
+            r.err(
+                Diagnostic::new(
+                    k("corrosion_allowance"),
+                    s,
+                    "the corrosion allowance (plus thinning allowance) is at or above the nominal thickness",
+                )
+                .expected("a corrosion allowance smaller than the nominal thickness")
+                .hint("check `nominal_thickness` and `corrosion_allowance`"),
+            );
         }
     }
 
@@ -1038,13 +867,9 @@ fn read_component(
         let q = r.number(key, v)?;
         if q.value <= 0.0 || q.value > 1.0 {
             r.err(
-                Diagnostic::new(
-                    key,
-                    Some(v.span()),
-                    format!("joint efficiency {} is outside (0, 1]", q.value),
-                )
-                .expected("a number greater than 0 and at most 1, e.g. 0.85")
-                .hint("UW-12 gives 1.00, 0.85 or 0.70 for a type 1 butt joint"),
+                Diagnostic::new(key, Some(v.span()), format!("joint efficiency {} is outside (0, 1]", q.value))
+                    .expected("a number greater than 0 and at most 1, e.g. 0.85")
+                    .hint("UW-12 gives 1.00, 0.85 or 0.70 for a type 1 butt joint"),
             );
             return None;
         }
@@ -1056,23 +881,13 @@ fn read_component(
         span.clone(),
         "the joint efficiency E, e.g. 0.85 (UW-12)",
     ) {
-        Some(v) => efficiency(r, &k("joint_efficiency"), v).inspect(|e| {
-            echo(
-                "joint_efficiency",
-                v,
-                Quantity::new(*e, Kind::Dimensionless),
-            )
-        }),
+        Some(v) => efficiency(r, &k("joint_efficiency"), v)
+            .inspect(|e| echo("joint_efficiency", v, Quantity::new(*e, Kind::Dimensionless))),
         None => None,
     };
     let e_circ = match &c.circumferential_joint_efficiency {
-        Some(v) => efficiency(r, &k("circumferential_joint_efficiency"), v).inspect(|e| {
-            echo(
-                "circumferential_joint_efficiency",
-                v,
-                Quantity::new(*e, Kind::Dimensionless),
-            )
-        }),
+        Some(v) => efficiency(r, &k("circumferential_joint_efficiency"), v)
+            .inspect(|e| echo("circumferential_joint_efficiency", v, Quantity::new(*e, Kind::Dimensionless))),
         None => e,
     };
     let head = match &c.liquid_head {
@@ -1095,14 +910,10 @@ fn read_component(
         }
         None => Some(Quantity::mm(0.0)),
     };
-    let length = c.length.as_ref().and_then(|v| {
-        r.positive(&k("length"), v, Kind::Length)
-            .inspect(|q| echo("length", v, *q))
-    });
+    let length =
+        c.length.as_ref().and_then(|v| r.positive(&k("length"), v, Kind::Length).inspect(|q| echo("length", v, *q)));
     let flange = match &c.straight_flange {
-        Some(v) => r
-            .non_negative(&k("straight_flange"), v, Kind::Length)
-            .inspect(|q| echo("straight_flange", v, *q)),
+        Some(v) => r.non_negative(&k("straight_flange"), v, Kind::Length).inspect(|q| echo("straight_flange", v, *q)),
         None => Some(Quantity::mm(0.0)),
     };
 
@@ -1115,9 +926,7 @@ fn read_component(
             Some(v) => r.number(&k("aspect_ratio"), v).and_then(|q| {
                 echo("aspect_ratio", v, q);
                 if (1.0..=3.0).contains(&q.value) {
-                    Some(ComponentKind::EllipsoidalHead {
-                        aspect_ratio: q.value,
-                    })
+                    Some(ComponentKind::EllipsoidalHead { aspect_ratio: q.value })
                 } else {
                     r.err(
                         Diagnostic::new(
@@ -1125,9 +934,7 @@ fn read_component(
                             Some(v.span()),
                             format!("aspect ratio D/2h = {} is outside 1.0 to 3.0", q.value),
                         )
-                        .expected(
-                            "a ratio D/2h from 1.0 (hemisphere) to 3.0 (Appendix 1, 1-4 (c))",
-                        ),
+                        .expected("a ratio D/2h from 1.0 (hemisphere) to 3.0 (Appendix 1, 1-4 (c))"),
                     );
                     None
                 }
@@ -1176,8 +983,7 @@ fn torisphere(
     };
     let (crown, knuckle, shape) = match (&c.shape, &c.crown_radius, &c.knuckle_radius) {
         (Some(s), None, None) => {
-            let Some((_, shape)) = TorisphereShape::ALL.iter().find(|(n, _)| n == s.get_ref())
-            else {
+            let Some((_, shape)) = TorisphereShape::ALL.iter().find(|(n, _)| n == s.get_ref()) else {
                 let names: Vec<&str> = TorisphereShape::ALL.iter().map(|(n, _)| *n).collect();
                 r.err(
                     Diagnostic::new(
@@ -1193,14 +999,21 @@ fn torisphere(
             let (fl, fr, on_outside) = shape.ratios();
             let base = if on_outside { outside } else { inside };
             let Some(base) = base else {
-                r.err(Diagnostic::new(k("shape"), Some(s.span()), format!("the `{}` shape is defined on the {} diameter, which needs `nominal_thickness` here", s.get_ref(), if on_outside { "outside" } else { "inside" })).hint("give `nominal_thickness`, or give the diameter on that basis"));
+                r.err(
+                    Diagnostic::new(
+                        k("shape"),
+                        Some(s.span()),
+                        format!(
+                            "the `{}` shape is defined on the {} diameter, which needs `nominal_thickness` here",
+                            s.get_ref(),
+                            if on_outside { "outside" } else { "inside" }
+                        ),
+                    )
+                    .hint("give `nominal_thickness`, or give the diameter on that basis"),
+                );
                 return None;
             };
-            (
-                Quantity::new(fl * base, Kind::Length),
-                Quantity::new(fr * base, Kind::Length),
-                Some(*shape),
-            )
+            (Quantity::new(fl * base, Kind::Length), Quantity::new(fr * base, Kind::Length), Some(*shape))
         }
         (None, Some(l), Some(kr)) => {
             let l_q = r.positive(&k("crown_radius"), l, Kind::Length);
@@ -1246,13 +1059,27 @@ fn torisphere(
             }
             // A torisphere closes only when the crown arc reaches the axis: L − r ≥ D/2 − r.
             if l_q.value < d_in / 2.0 {
-                r.err(Diagnostic::new(k("crown_radius"), Some(l.span()), "the crown radius is smaller than half the diameter; no torisphere has this shape").expected("crown_radius ≥ D/2"));
+                r.err(
+                    Diagnostic::new(
+                        k("crown_radius"),
+                        Some(l.span()),
+                        "the crown radius is smaller than half the diameter; no torisphere has this shape",
+                    )
+                    .expected("crown_radius ≥ D/2"),
+                );
                 return None;
             }
             (l_q, r_q, None)
         }
         (None, None, None) => {
-            r.err(Diagnostic::new(k("shape"), span, "a torispherical head needs `shape` or both `crown_radius` and `knuckle_radius`").hint("e.g. shape = \"2:1-equivalent\""));
+            r.err(
+                Diagnostic::new(
+                    k("shape"),
+                    span,
+                    "a torispherical head needs `shape` or both `crown_radius` and `knuckle_radius`",
+                )
+                .hint("e.g. shape = \"2:1-equivalent\""),
+            );
             return None;
         }
         (Some(s), _, _) => {
@@ -1264,27 +1091,16 @@ fn torisphere(
             return None;
         }
         (None, l, kr) => {
-            let s = l
-                .as_ref()
-                .map(|v| v.span())
-                .or(kr.as_ref().map(|v| v.span()));
+            let s = l.as_ref().map(|v| v.span()).or(kr.as_ref().map(|v| v.span()));
             r.err(Diagnostic::new(
-                k(if l.is_none() {
-                    "crown_radius"
-                } else {
-                    "knuckle_radius"
-                }),
+                k(if l.is_none() { "crown_radius" } else { "knuckle_radius" }),
                 s,
                 "`crown_radius` and `knuckle_radius` must be given together",
             ));
             return None;
         }
     };
-    Some(ComponentKind::TorisphericalHead {
-        crown_radius: crown,
-        knuckle_radius: knuckle,
-        shape,
-    })
+    Some(ComponentKind::TorisphericalHead { crown_radius: crown, knuckle_radius: knuckle, shape })
 }
 
 fn cone(
@@ -1299,29 +1115,24 @@ fn cone(
     let k = |f: &str| format!("component[{i}].{f}");
     let diameter = diameter?;
     let (small_key, small, wrong) = match diameter {
-        Diameter::Inside(_) => (
-            "small_inside_diameter",
-            &c.small_inside_diameter,
-            &c.small_outside_diameter,
-        ),
-        Diameter::Outside(_) => (
-            "small_outside_diameter",
-            &c.small_outside_diameter,
-            &c.small_inside_diameter,
-        ),
+        Diameter::Inside(_) => ("small_inside_diameter", &c.small_inside_diameter, &c.small_outside_diameter),
+        Diameter::Outside(_) => ("small_outside_diameter", &c.small_outside_diameter, &c.small_inside_diameter),
     };
     if let Some(w) = wrong {
-        r.err(Diagnostic::new(k("small_diameter"), Some(w.span()), "the small-end diameter must be on the same basis (inside or outside) as the large end").expected(format!("`{small_key}`")));
+        r.err(
+            Diagnostic::new(
+                k("small_diameter"),
+                Some(w.span()),
+                "the small-end diameter must be on the same basis (inside or outside) as the large end",
+            )
+            .expected(format!("`{small_key}`")),
+        );
         return None;
     }
     let Some(sv) = small else {
         r.err(
-            Diagnostic::new(
-                k(small_key),
-                span,
-                format!("a conical section needs `{small_key}`"),
-            )
-            .expected("the diameter at the small end"),
+            Diagnostic::new(k(small_key), span, format!("a conical section needs `{small_key}`"))
+                .expected("the diameter at the small end"),
         );
         return None;
     };
@@ -1335,9 +1146,7 @@ fn cone(
                 Some(sv.span()),
                 "the small-end diameter is not smaller than the large-end diameter",
             )
-            .expected(
-                "a small end smaller than `inside_diameter` / `outside_diameter` (the large end)",
-            ),
+            .expected("a small end smaller than `inside_diameter` / `outside_diameter` (the large end)"),
         );
         return None;
     }
@@ -1358,10 +1167,7 @@ fn cone(
             echo("half_apex_angle", v, a);
             a
         }
-        (None, Some(l)) => Quantity::new(
-            ((large.value - small_q.value) / (2.0 * l.value)).atan(),
-            Kind::Angle,
-        ),
+        (None, Some(l)) => Quantity::new(((large.value - small_q.value) / (2.0 * l.value)).atan(), Kind::Angle),
         (Some(v), Some(_)) => {
             r.err(Diagnostic::new(
                 k("half_apex_angle"),
@@ -1372,20 +1178,13 @@ fn cone(
         }
         (None, None) => {
             r.err(
-                Diagnostic::new(
-                    k("half_apex_angle"),
-                    span,
-                    "a conical section needs `half_apex_angle` or `length`",
-                )
-                .hint("e.g. half_apex_angle = \"20 deg\""),
+                Diagnostic::new(k("half_apex_angle"), span, "a conical section needs `half_apex_angle` or `length`")
+                    .hint("e.g. half_apex_angle = \"20 deg\""),
             );
             return None;
         }
     };
-    Some(ComponentKind::ConicalSection {
-        small_diameter: small_q,
-        half_apex_angle: angle,
-    })
+    Some(ComponentKind::ConicalSection { small_diameter: small_q, half_apex_angle: angle })
 }
 
 #[cfg(test)]

@@ -26,10 +26,7 @@ pub fn evaluate(file: &str, source: &str) -> Result<Evaluated, InputErrors> {
                 .hint("the inputs lie outside the range where the code formulas give a result"),
         )
     })?;
-    Ok(Evaluated {
-        design,
-        calculation,
-    })
+    Ok(Evaluated { design, calculation })
 }
 
 /// Runs the design's rule set.

@@ -48,50 +48,25 @@ impl Dim {
 
     /// A dimension from its exponents.
     pub const fn new(mass: i8, length: i8, time: i8, temperature: i8) -> Dim {
-        Dim {
-            mass,
-            length,
-            time,
-            temperature,
-        }
+        Dim { mass, length, time, temperature }
     }
     /// Product of two dimensions.
     pub fn mul(self, o: Dim) -> Dim {
-        Dim::new(
-            self.mass + o.mass,
-            self.length + o.length,
-            self.time + o.time,
-            self.temperature + o.temperature,
-        )
+        Dim::new(self.mass + o.mass, self.length + o.length, self.time + o.time, self.temperature + o.temperature)
     }
     /// Quotient of two dimensions.
     pub fn div(self, o: Dim) -> Dim {
-        Dim::new(
-            self.mass - o.mass,
-            self.length - o.length,
-            self.time - o.time,
-            self.temperature - o.temperature,
-        )
+        Dim::new(self.mass - o.mass, self.length - o.length, self.time - o.time, self.temperature - o.temperature)
     }
     /// Integer power of a dimension.
     pub fn powi(self, n: i8) -> Dim {
-        Dim::new(
-            self.mass * n,
-            self.length * n,
-            self.time * n,
-            self.temperature * n,
-        )
+        Dim::new(self.mass * n, self.length * n, self.time * n, self.temperature * n)
     }
     /// Integer root of a dimension, when every exponent divides evenly.
     pub fn root(self, n: i8) -> Option<Dim> {
         let all = [self.mass, self.length, self.time, self.temperature];
         if all.iter().all(|e| e % n == 0) {
-            Some(Dim::new(
-                self.mass / n,
-                self.length / n,
-                self.time / n,
-                self.temperature / n,
-            ))
+            Some(Dim::new(self.mass / n, self.length / n, self.time / n, self.temperature / n))
         } else {
             None
         }
@@ -220,211 +195,48 @@ struct UnitDef {
 
 const UNITS: &[UnitDef] = &[
     // Pressure and stress.
-    UnitDef {
-        names: &["Pa"],
-        kind_dim: Dim::PRESSURE,
-        factor: 1.0,
-        offset: 0.0,
-    },
-    UnitDef {
-        names: &["kPa"],
-        kind_dim: Dim::PRESSURE,
-        factor: 1e3,
-        offset: 0.0,
-    },
-    UnitDef {
-        names: &["MPa", "N/mm2", "N/mm²"],
-        kind_dim: Dim::PRESSURE,
-        factor: 1e6,
-        offset: 0.0,
-    },
-    UnitDef {
-        names: &["GPa"],
-        kind_dim: Dim::PRESSURE,
-        factor: 1e9,
-        offset: 0.0,
-    },
-    UnitDef {
-        names: &["bar"],
-        kind_dim: Dim::PRESSURE,
-        factor: 1e5,
-        offset: 0.0,
-    },
-    UnitDef {
-        names: &["psi"],
-        kind_dim: Dim::PRESSURE,
-        factor: PSI,
-        offset: 0.0,
-    },
-    UnitDef {
-        names: &["ksi"],
-        kind_dim: Dim::PRESSURE,
-        factor: PSI * 1e3,
-        offset: 0.0,
-    },
+    UnitDef { names: &["Pa"], kind_dim: Dim::PRESSURE, factor: 1.0, offset: 0.0 },
+    UnitDef { names: &["kPa"], kind_dim: Dim::PRESSURE, factor: 1e3, offset: 0.0 },
+    UnitDef { names: &["MPa", "N/mm2", "N/mm²"], kind_dim: Dim::PRESSURE, factor: 1e6, offset: 0.0 },
+    UnitDef { names: &["GPa"], kind_dim: Dim::PRESSURE, factor: 1e9, offset: 0.0 },
+    UnitDef { names: &["bar"], kind_dim: Dim::PRESSURE, factor: 1e5, offset: 0.0 },
+    UnitDef { names: &["psi"], kind_dim: Dim::PRESSURE, factor: PSI, offset: 0.0 },
+    UnitDef { names: &["ksi"], kind_dim: Dim::PRESSURE, factor: PSI * 1e3, offset: 0.0 },
     // Length.
-    UnitDef {
-        names: &["mm"],
-        kind_dim: Dim::LENGTH,
-        factor: 1e-3,
-        offset: 0.0,
-    },
-    UnitDef {
-        names: &["cm"],
-        kind_dim: Dim::LENGTH,
-        factor: 1e-2,
-        offset: 0.0,
-    },
-    UnitDef {
-        names: &["m"],
-        kind_dim: Dim::LENGTH,
-        factor: 1.0,
-        offset: 0.0,
-    },
-    UnitDef {
-        names: &["in"],
-        kind_dim: Dim::LENGTH,
-        factor: INCH,
-        offset: 0.0,
-    },
-    UnitDef {
-        names: &["ft"],
-        kind_dim: Dim::LENGTH,
-        factor: FOOT,
-        offset: 0.0,
-    },
+    UnitDef { names: &["mm"], kind_dim: Dim::LENGTH, factor: 1e-3, offset: 0.0 },
+    UnitDef { names: &["cm"], kind_dim: Dim::LENGTH, factor: 1e-2, offset: 0.0 },
+    UnitDef { names: &["m"], kind_dim: Dim::LENGTH, factor: 1.0, offset: 0.0 },
+    UnitDef { names: &["in"], kind_dim: Dim::LENGTH, factor: INCH, offset: 0.0 },
+    UnitDef { names: &["ft"], kind_dim: Dim::LENGTH, factor: FOOT, offset: 0.0 },
     // Temperature (held in °C).
-    UnitDef {
-        names: &["degC", "°C", "C"],
-        kind_dim: Dim::TEMPERATURE,
-        factor: 1.0,
-        offset: 0.0,
-    },
-    UnitDef {
-        names: &["degF", "°F", "F"],
-        kind_dim: Dim::TEMPERATURE,
-        factor: 5.0 / 9.0,
-        offset: -32.0 * 5.0 / 9.0,
-    },
-    UnitDef {
-        names: &["K"],
-        kind_dim: Dim::TEMPERATURE,
-        factor: 1.0,
-        offset: -273.15,
-    },
+    UnitDef { names: &["degC", "°C", "C"], kind_dim: Dim::TEMPERATURE, factor: 1.0, offset: 0.0 },
+    UnitDef { names: &["degF", "°F", "F"], kind_dim: Dim::TEMPERATURE, factor: 5.0 / 9.0, offset: -32.0 * 5.0 / 9.0 },
+    UnitDef { names: &["K"], kind_dim: Dim::TEMPERATURE, factor: 1.0, offset: -273.15 },
     // Density.
+    UnitDef { names: &["kg/m3", "kg/m³"], kind_dim: Dim::DENSITY, factor: 1.0, offset: 0.0 },
+    UnitDef { names: &["g/cm3", "g/cm³"], kind_dim: Dim::DENSITY, factor: 1e3, offset: 0.0 },
     UnitDef {
-        names: &["kg/m3", "kg/m³"],
-        kind_dim: Dim::DENSITY,
-        factor: 1.0,
-        offset: 0.0,
-    },
-    UnitDef {
-        names: &["g/cm3", "g/cm³"],
-        kind_dim: Dim::DENSITY,
-        factor: 1e3,
-        offset: 0.0,
-    },
-    UnitDef {
-        names: &["lb/ft3", "lb/ft³"],
-        kind_dim: Dim::DENSITY,
-        factor: POUND / (FOOT * FOOT * FOOT),
-        offset: 0.0,
+        names: &["lb/ft3", "lb/ft³"], kind_dim: Dim::DENSITY, factor: POUND / (FOOT * FOOT * FOOT), offset: 0.0
     },
     // Angle.
-    UnitDef {
-        names: &["deg", "°"],
-        kind_dim: Dim::NONE,
-        factor: std::f64::consts::PI / 180.0,
-        offset: 0.0,
-    },
-    UnitDef {
-        names: &["rad"],
-        kind_dim: Dim::NONE,
-        factor: 1.0,
-        offset: 0.0,
-    },
+    UnitDef { names: &["deg", "°"], kind_dim: Dim::NONE, factor: std::f64::consts::PI / 180.0, offset: 0.0 },
+    UnitDef { names: &["rad"], kind_dim: Dim::NONE, factor: 1.0, offset: 0.0 },
     // Mass.
-    UnitDef {
-        names: &["kg"],
-        kind_dim: Dim::MASS,
-        factor: 1.0,
-        offset: 0.0,
-    },
-    UnitDef {
-        names: &["t"],
-        kind_dim: Dim::MASS,
-        factor: 1e3,
-        offset: 0.0,
-    },
-    UnitDef {
-        names: &["lb"],
-        kind_dim: Dim::MASS,
-        factor: POUND,
-        offset: 0.0,
-    },
+    UnitDef { names: &["kg"], kind_dim: Dim::MASS, factor: 1.0, offset: 0.0 },
+    UnitDef { names: &["t"], kind_dim: Dim::MASS, factor: 1e3, offset: 0.0 },
+    UnitDef { names: &["lb"], kind_dim: Dim::MASS, factor: POUND, offset: 0.0 },
     // Area and volume.
-    UnitDef {
-        names: &["mm2", "mm²"],
-        kind_dim: Dim::AREA,
-        factor: 1e-6,
-        offset: 0.0,
-    },
-    UnitDef {
-        names: &["m2", "m²"],
-        kind_dim: Dim::AREA,
-        factor: 1.0,
-        offset: 0.0,
-    },
-    UnitDef {
-        names: &["in2", "in²"],
-        kind_dim: Dim::AREA,
-        factor: INCH * INCH,
-        offset: 0.0,
-    },
-    UnitDef {
-        names: &["ft2", "ft²"],
-        kind_dim: Dim::AREA,
-        factor: FOOT * FOOT,
-        offset: 0.0,
-    },
-    UnitDef {
-        names: &["m3", "m³"],
-        kind_dim: Dim::VOLUME,
-        factor: 1.0,
-        offset: 0.0,
-    },
-    UnitDef {
-        names: &["L"],
-        kind_dim: Dim::VOLUME,
-        factor: 1e-3,
-        offset: 0.0,
-    },
-    UnitDef {
-        names: &["ft3", "ft³"],
-        kind_dim: Dim::VOLUME,
-        factor: FOOT * FOOT * FOOT,
-        offset: 0.0,
-    },
-    UnitDef {
-        names: &["in3", "in³"],
-        kind_dim: Dim::VOLUME,
-        factor: INCH * INCH * INCH,
-        offset: 0.0,
-    },
+    UnitDef { names: &["mm2", "mm²"], kind_dim: Dim::AREA, factor: 1e-6, offset: 0.0 },
+    UnitDef { names: &["m2", "m²"], kind_dim: Dim::AREA, factor: 1.0, offset: 0.0 },
+    UnitDef { names: &["in2", "in²"], kind_dim: Dim::AREA, factor: INCH * INCH, offset: 0.0 },
+    UnitDef { names: &["ft2", "ft²"], kind_dim: Dim::AREA, factor: FOOT * FOOT, offset: 0.0 },
+    UnitDef { names: &["m3", "m³"], kind_dim: Dim::VOLUME, factor: 1.0, offset: 0.0 },
+    UnitDef { names: &["L"], kind_dim: Dim::VOLUME, factor: 1e-3, offset: 0.0 },
+    UnitDef { names: &["ft3", "ft³"], kind_dim: Dim::VOLUME, factor: FOOT * FOOT * FOOT, offset: 0.0 },
+    UnitDef { names: &["in3", "in³"], kind_dim: Dim::VOLUME, factor: INCH * INCH * INCH, offset: 0.0 },
     // Acceleration.
-    UnitDef {
-        names: &["m/s2", "m/s²"],
-        kind_dim: Dim::ACCELERATION,
-        factor: 1.0,
-        offset: 0.0,
-    },
-    UnitDef {
-        names: &["ft/s2", "ft/s²"],
-        kind_dim: Dim::ACCELERATION,
-        factor: FOOT,
-        offset: 0.0,
-    },
+    UnitDef { names: &["m/s2", "m/s²"], kind_dim: Dim::ACCELERATION, factor: 1.0, offset: 0.0 },
+    UnitDef { names: &["ft/s2", "ft/s²"], kind_dim: Dim::ACCELERATION, factor: FOOT, offset: 0.0 },
 ];
 
 /// Why a quantity string could not be read.
@@ -477,18 +289,13 @@ pub fn parse_quantity(text: &str, kind: Kind) -> Result<Quantity, QuantityError>
         }
         return Err(QuantityError::NoUnit);
     }
-    let def = UNITS
-        .iter()
-        .find(|d| d.names.contains(&unit))
-        .ok_or_else(|| QuantityError::UnknownUnit(unit.to_string()))?;
+    let def =
+        UNITS.iter().find(|d| d.names.contains(&unit)).ok_or_else(|| QuantityError::UnknownUnit(unit.to_string()))?;
     // Angles and plain numbers share the empty dimension; only angle units are
     // accepted for angles, and a plain number takes no unit at all.
-    let wrong =
-        def.kind_dim != kind.dim() || (kind == Kind::Dimensionless && def.kind_dim == Dim::NONE);
+    let wrong = def.kind_dim != kind.dim() || (kind == Kind::Dimensionless && def.kind_dim == Dim::NONE);
     if wrong {
-        return Err(QuantityError::WrongKind {
-            unit: unit.to_string(),
-        });
+        return Err(QuantityError::WrongKind { unit: unit.to_string() });
     }
     let si = value * def.factor + def.offset;
     if !si.is_finite() {
@@ -585,20 +392,14 @@ impl UnitSystem {
     /// used for required thicknesses, which must never be shown thinner than computed.
     pub fn display_up(self, q: Quantity) -> String {
         let (sym, _, _) = self.unit(q.kind);
-        join_unit(
-            &format_fixed_up(self.convert(q), self.decimals(q.kind)),
-            sym,
-        )
+        join_unit(&format_fixed_up(self.convert(q), self.decimals(q.kind)), sym)
     }
 
     /// Like [`display`](Self::display) but rounds down at the shown precision:
     /// used for pressure capacities (MAWP, MAP), never shown higher than computed.
     pub fn display_down(self, q: Quantity) -> String {
         let (sym, _, _) = self.unit(q.kind);
-        join_unit(
-            &format_fixed_down(self.convert(q), self.decimals(q.kind)),
-            sym,
-        )
+        join_unit(&format_fixed_down(self.convert(q), self.decimals(q.kind)), sym)
     }
 
     /// Decimals shown in tables for a kind: enough to check by hand.
@@ -674,11 +475,7 @@ fn trim_zeros(s: String) -> String {
 pub fn format_fixed_up(v: f64, decimals: usize) -> String {
     let scale = 10f64.powi(decimals as i32);
     let scaled = v * scale;
-    let r = if (scaled - scaled.round()).abs() < 1e-7 {
-        scaled.round()
-    } else {
-        scaled.ceil()
-    };
+    let r = if (scaled - scaled.round()).abs() < 1e-7 { scaled.round() } else { scaled.ceil() };
     format!("{:.*}", decimals, r / scale)
 }
 
@@ -686,11 +483,7 @@ pub fn format_fixed_up(v: f64, decimals: usize) -> String {
 pub fn format_fixed_down(v: f64, decimals: usize) -> String {
     let scale = 10f64.powi(decimals as i32);
     let scaled = v * scale;
-    let r = if (scaled - scaled.round()).abs() < 1e-7 {
-        scaled.round()
-    } else {
-        scaled.floor()
-    };
+    let r = if (scaled - scaled.round()).abs() < 1e-7 { scaled.round() } else { scaled.floor() };
     format!("{:.*}", decimals, r / scale)
 }
 
@@ -701,13 +494,8 @@ mod tests {
     #[test]
     fn parses_pressures_in_every_unit() {
         // Conversion factors: NIST SP 811, Appendix B (psi = 6.894757 kPa; bar = 100 kPa).
-        let cases = [
-            ("1.0 MPa", 1e6),
-            ("1 bar", 1e5),
-            ("100 psi", 689_475.729_316_8),
-            ("250kPa", 2.5e5),
-            ("1 N/mm2", 1e6),
-        ];
+        let cases =
+            [("1.0 MPa", 1e6), ("1 bar", 1e5), ("100 psi", 689_475.729_316_8), ("250kPa", 2.5e5), ("1 N/mm2", 1e6)];
         for (text, pa) in cases {
             let q = parse_quantity(text, Kind::Pressure).unwrap();
             assert!((q.value - pa).abs() < 1e-6 * pa, "{text}");
@@ -719,57 +507,23 @@ mod tests {
         assert!((parse_quantity("48 in", Kind::Length).unwrap().value - 1.2192).abs() < 1e-12);
         assert!((parse_quantity("2.4 m", Kind::Length).unwrap().value - 2.4).abs() < 1e-12);
         // 212 °F is the boiling point of water, 100 °C (definition of the Fahrenheit scale).
-        assert!(
-            (parse_quantity("212 degF", Kind::Temperature).unwrap().value - 100.0).abs() < 1e-9
-        );
+        assert!((parse_quantity("212 degF", Kind::Temperature).unwrap().value - 100.0).abs() < 1e-9);
         assert!((parse_quantity("150 °C", Kind::Temperature).unwrap().value - 150.0).abs() < 1e-12);
         // 62.428 lb/ft³ is about 1000 kg/m³ (NIST SP 811: 1 lb/ft³ = 16.01846 kg/m³).
-        assert!(
-            (parse_quantity("62.428 lb/ft3", Kind::Density)
-                .unwrap()
-                .value
-                - 1000.0)
-                .abs()
-                < 0.01
-        );
-        assert!(
-            (parse_quantity("30 deg", Kind::Angle).unwrap().value - std::f64::consts::PI / 6.0)
-                .abs()
-                < 1e-12
-        );
+        assert!((parse_quantity("62.428 lb/ft3", Kind::Density).unwrap().value - 1000.0).abs() < 0.01);
+        assert!((parse_quantity("30 deg", Kind::Angle).unwrap().value - std::f64::consts::PI / 6.0).abs() < 1e-12);
         assert!((parse_quantity("1e-3 m", Kind::Length).unwrap().value - 1e-3).abs() < 1e-15);
     }
 
     #[test]
     fn rejects_wrong_kind_unknown_unit_and_missing_unit() {
-        assert_eq!(
-            parse_quantity("12 mm", Kind::Pressure),
-            Err(QuantityError::WrongKind { unit: "mm".into() })
-        );
-        assert_eq!(
-            parse_quantity("12 furlong", Kind::Length),
-            Err(QuantityError::UnknownUnit("furlong".into()))
-        );
-        assert_eq!(
-            parse_quantity("12", Kind::Length),
-            Err(QuantityError::NoUnit)
-        );
-        assert_eq!(
-            parse_quantity("MPa", Kind::Pressure),
-            Err(QuantityError::NoNumber)
-        );
-        assert_eq!(
-            parse_quantity("", Kind::Pressure),
-            Err(QuantityError::NoNumber)
-        );
-        assert_eq!(
-            parse_quantity("1e999 MPa", Kind::Pressure),
-            Err(QuantityError::NotFinite)
-        );
-        assert_eq!(
-            parse_quantity("2 rad", Kind::Dimensionless),
-            Err(QuantityError::WrongKind { unit: "rad".into() })
-        );
+        assert_eq!(parse_quantity("12 mm", Kind::Pressure), Err(QuantityError::WrongKind { unit: "mm".into() }));
+        assert_eq!(parse_quantity("12 furlong", Kind::Length), Err(QuantityError::UnknownUnit("furlong".into())));
+        assert_eq!(parse_quantity("12", Kind::Length), Err(QuantityError::NoUnit));
+        assert_eq!(parse_quantity("MPa", Kind::Pressure), Err(QuantityError::NoNumber));
+        assert_eq!(parse_quantity("", Kind::Pressure), Err(QuantityError::NoNumber));
+        assert_eq!(parse_quantity("1e999 MPa", Kind::Pressure), Err(QuantityError::NotFinite));
+        assert_eq!(parse_quantity("2 rad", Kind::Dimensionless), Err(QuantityError::WrongKind { unit: "rad".into() }));
     }
 
     #[test]
@@ -777,24 +531,15 @@ mod tests {
         let p = Quantity::mpa(1.0);
         assert_eq!(UnitSystem::Si.display(p), "1 MPa");
         assert_eq!(UnitSystem::Us.display(p), "145.038 psi");
-        assert_eq!(
-            UnitSystem::Us.display(Quantity::new(100.0, Kind::Temperature)),
-            "212 °F"
-        );
-        assert_eq!(
-            UnitSystem::Si.display(Quantity::new(std::f64::consts::PI / 6.0, Kind::Angle)),
-            "30°"
-        );
+        assert_eq!(UnitSystem::Us.display(Quantity::new(100.0, Kind::Temperature)), "212 °F");
+        assert_eq!(UnitSystem::Si.display(Quantity::new(std::f64::consts::PI / 6.0, Kind::Angle)), "30°");
     }
 
     #[test]
     fn thickness_rounds_up_and_pressure_rounds_down() {
         assert_eq!(UnitSystem::Si.display_up(Quantity::mm(9.731)), "9.74 mm");
         assert_eq!(UnitSystem::Si.display_up(Quantity::mm(10.0)), "10.00 mm");
-        assert_eq!(
-            UnitSystem::Si.display_down(Quantity::mpa(1.23456)),
-            "1.2345 MPa"
-        );
+        assert_eq!(UnitSystem::Si.display_down(Quantity::mpa(1.23456)), "1.2345 MPa");
         assert_eq!(format_fixed_up(-0.001, 2), "-0.00");
     }
 

@@ -5,9 +5,7 @@ mod doccontrol_support;
 
 use doccontrol_support::*;
 use knuckle::package::manifest::sha256_hex;
-use knuckle::signing::{
-    format_signoff_text, signoff_report, verify_signatures, PublicKey, Role, SignatureState,
-};
+use knuckle::signing::{format_signoff_text, signoff_report, verify_signatures, PublicKey, Role, SignatureState};
 use std::path::{Path, PathBuf};
 
 /// Makes a key for `name` in `dir` through `knuckle keygen`.
@@ -43,23 +41,13 @@ fn three_roles_sign_and_an_inspector_confirms_offline() {
     // Signing never changes what the digest and the file list say.
     assert_eq!(m.digest, before.digest);
     assert_eq!(m.files, before.files);
-    assert_eq!(
-        m.signatures
-            .iter()
-            .map(|s| s.role.as_str())
-            .collect::<Vec<_>>(),
-        ["prepared", "checked", "approved"]
-    );
+    assert_eq!(m.signatures.iter().map(|s| s.role.as_str()).collect::<Vec<_>>(), ["prepared", "checked", "approved"]);
     assert!(pkg.join("signatures/D-100_revA.checked.json").is_file());
 
     let trusted = [p1.clone(), p2.clone(), p3.clone()];
     let reports = verify_signatures(&pkg, &m, &trusted);
     assert_eq!(reports.len(), 3);
-    for (r, (name, key)) in reports.iter().zip([
-        ("A. Engineer", &p1),
-        ("B. Checker", &p2),
-        ("C. Approver", &p3),
-    ]) {
+    for (r, (name, key)) in reports.iter().zip([("A. Engineer", &p1), ("B. Checker", &p2), ("C. Approver", &p3)]) {
         assert_eq!(r.state, SignatureState::Valid, "{r:?}");
         assert_eq!(r.signer, name);
         assert_eq!(r.date, "2026-03-02");
@@ -70,10 +58,7 @@ fn three_roles_sign_and_an_inspector_confirms_offline() {
     assert!(full.missing_roles.is_empty());
     assert!(full.complete());
     let text = format_signoff_text(&full);
-    assert!(
-        text.contains("checked   valid signature: B. Checker on 2026-03-02"),
-        "{text}"
-    );
+    assert!(text.contains("checked   valid signature: B. Checker on 2026-03-02"), "{text}");
     assert!(text.contains("sign-off complete"));
 }
 
@@ -94,10 +79,8 @@ fn a_changed_byte_invalidates_the_signature() {
     let m = read_manifest(&manifest_path);
     let r = &verify_signatures(&pkg, &m, std::slice::from_ref(&p))[0];
     assert!(!r.package_intact && !r.approves());
-    assert!(
-        format_signoff_text(&signoff_report(&pkg, &m, std::slice::from_ref(&p)))
-            .contains("no longer match the manifest")
-    );
+    assert!(format_signoff_text(&signoff_report(&pkg, &m, std::slice::from_ref(&p)))
+        .contains("no longer match the manifest"));
 
     // Re-hash the manifest to hide the change: now the signature itself fails.
     let mut forged = m.clone();
@@ -119,9 +102,7 @@ fn a_changed_byte_invalidates_the_signature() {
     })
     .unwrap();
     let sig = pkg.join("signatures/D-101_revA.checked.json");
-    let text = std::fs::read_to_string(&sig)
-        .unwrap()
-        .replace("B. Checker", "B. Chequer");
+    let text = std::fs::read_to_string(&sig).unwrap().replace("B. Checker", "B. Chequer");
     std::fs::write(&sig, text).unwrap();
     let r = &verify_signatures(&pkg, &m, &[p])[0];
     assert_eq!(r.state, SignatureState::FileChanged);
@@ -140,21 +121,14 @@ fn a_signature_moved_to_another_package_fails() {
     // Copy the signature file and its manifest entry into the other package.
     let m1 = read_manifest(&one.join("D-102_revA.manifest.json"));
     std::fs::create_dir_all(two.join("signatures")).unwrap();
-    std::fs::copy(
-        one.join("signatures/D-102_revA.approved.json"),
-        two.join("signatures/D-102_revA.approved.json"),
-    )
-    .unwrap();
+    std::fs::copy(one.join("signatures/D-102_revA.approved.json"), two.join("signatures/D-102_revA.approved.json"))
+        .unwrap();
     let mut m2 = read_manifest(&m2_path);
     m2.signatures = m1.signatures.clone();
     std::fs::write(&m2_path, m2.to_json()).unwrap();
 
     let r = &verify_signatures(&two, &m2, &[p])[0];
-    assert!(
-        matches!(r.state, SignatureState::OtherPackage(_)),
-        "{:?}",
-        r.state
-    );
+    assert!(matches!(r.state, SignatureState::OtherPackage(_)), "{:?}", r.state);
     assert!(!r.approves());
     let report = signoff_report(&two, &m2, &[]);
     assert!(report.missing_roles.contains(&Role::Approved));
@@ -223,10 +197,7 @@ fn second_signature_for_a_role_needs_replace() {
     let m = read_manifest(&mp);
     assert_eq!(m.signatures.len(), 1);
     let r = &verify_signatures(&pkg, &m, &[p2])[0];
-    assert_eq!(
-        (r.signer.as_str(), r.state.clone()),
-        ("D. Deputy", SignatureState::Valid)
-    );
+    assert_eq!((r.signer.as_str(), r.state.clone()), ("D. Deputy", SignatureState::Valid));
 }
 
 #[test]
@@ -238,11 +209,7 @@ fn a_package_that_does_not_verify_is_not_signed() {
     let (k, _) = keygen(&root, "k.key", "B. Checker");
     let o = sign(&pkg, "checked", &k, &[]);
     assert_eq!(o.status.code(), Some(1));
-    assert!(
-        stderr(&o).contains("D-107_revA.pdf changed"),
-        "{}",
-        stderr(&o)
-    );
+    assert!(stderr(&o).contains("D-107_revA.pdf changed"), "{}", stderr(&o));
     assert!(read_manifest(&mp).signatures.is_empty());
     assert!(!pkg.join("signatures").exists());
 }
@@ -257,36 +224,19 @@ fn bad_dates_and_several_packages_are_usage_errors() {
     let (k, p) = keygen(&root, "k.key", "B. Checker");
     let o = sign(&pkg, "checked", &k, &[]);
     assert_eq!(o.status.code(), Some(2));
-    assert!(
-        stderr(&o).contains("holds several packages"),
-        "{}",
-        stderr(&o)
-    );
+    assert!(stderr(&o).contains("holds several packages"), "{}", stderr(&o));
     let o = sign(&pkg, "checked", &k, &["--document", "D-108"]);
     assert_eq!(o.status.code(), Some(2));
     assert!(stderr(&o).contains("several revisions of `D-108`"));
-    let o = sign(
-        &pkg,
-        "checked",
-        &k,
-        &["--document", "D-108_revB", "--date", "2026-02-30"],
-    );
+    let o = sign(&pkg, "checked", &k, &["--document", "D-108_revB", "--date", "2026-02-30"]);
     assert_eq!(o.status.code(), Some(2));
     assert!(stderr(&o).contains("`2026-02-30` is not a date"));
     let o = sign(&pkg, "checked", &k, &["--document", "D-109"]);
     assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
     let m = read_manifest(&pkg.join("D-109_revA.manifest.json"));
-    assert_eq!(
-        verify_signatures(&pkg, &m, &[p])[0].state,
-        SignatureState::Valid
-    );
+    assert_eq!(verify_signatures(&pkg, &m, &[p])[0].state, SignatureState::Valid);
     // A public key file cannot sign.
-    let o = sign(
-        &pkg,
-        "approved",
-        &root.join("k.key.pub"),
-        &["--document", "D-109"],
-    );
+    let o = sign(&pkg, "approved", &root.join("k.key.pub"), &["--document", "D-109"]);
     assert_eq!(o.status.code(), Some(2));
     assert!(stderr(&o).contains("not a secret key file"));
 }

@@ -75,10 +75,8 @@ pub struct SystemClock;
 
 impl Clock for SystemClock {
     fn now(&self) -> String {
-        let secs = std::time::SystemTime::now()
-            .duration_since(std::time::UNIX_EPOCH)
-            .map(|d| d.as_secs() as i64)
-            .unwrap_or(0);
+        let secs =
+            std::time::SystemTime::now().duration_since(std::time::UNIX_EPOCH).map(|d| d.as_secs() as i64).unwrap_or(0);
         format_utc(secs)
     }
 }
@@ -107,12 +105,7 @@ pub fn format_utc(secs: i64) -> String {
     let d = doy - (153 * mp + 2) / 5 + 1;
     let m = if mp < 10 { mp + 3 } else { mp - 9 };
     let y = yoe + era * 400 + i64::from(m <= 2);
-    format!(
-        "{y:04}-{m:02}-{d:02}T{:02}:{:02}:{:02}Z",
-        rem / 3600,
-        rem % 3600 / 60,
-        rem % 60
-    )
+    format!("{y:04}-{m:02}-{d:02}T{:02}:{:02}:{:02}Z", rem / 3600, rem % 3600 / 60, rem % 60)
 }
 
 /// Checks a `YYYY-MM-DDTHH:MM:SSZ` time stamp.
@@ -123,10 +116,7 @@ pub fn valid_timestamp(s: &str) -> bool {
     }
     let two = |i: usize| -> Option<u32> {
         let p = &s[i..i + 2];
-        p.bytes()
-            .all(|c| c.is_ascii_digit())
-            .then(|| p.parse().ok())
-            .flatten()
+        p.bytes().all(|c| c.is_ascii_digit()).then(|| p.parse().ok()).flatten()
     };
     crate::signing::valid_date(&s[..10])
         && matches!(two(11), Some(h) if h < 24)
@@ -199,24 +189,17 @@ impl Archive {
     pub fn open(root: &Path) -> Result<Archive, ArchiveError> {
         let db = root.join(REGISTER_FILE);
         if !db.is_file() {
-            return Err(ArchiveError::Input(format!(
-                "`{}` is not an archive (no {REGISTER_FILE})",
-                root.display()
-            )));
+            return Err(ArchiveError::Input(format!("`{}` is not an archive (no {REGISTER_FILE})", root.display())));
         }
         Archive::connect(root)
     }
 
     /// Opens an archive, creating the folder and the register when missing.
     pub fn open_or_create(root: &Path) -> Result<Archive, ArchiveError> {
-        std::fs::create_dir_all(root.join(objects::OBJECTS_DIR)).map_err(|e| {
-            ArchiveError::Storage(format!("cannot create archive `{}`: {e}", root.display()))
-        })?;
+        std::fs::create_dir_all(root.join(objects::OBJECTS_DIR))
+            .map_err(|e| ArchiveError::Storage(format!("cannot create archive `{}`: {e}", root.display())))?;
         let mut a = Archive::connect(root)?;
-        let tx = a
-            .conn
-            .transaction_with_behavior(TransactionBehavior::Immediate)
-            .map_err(storage)?;
+        let tx = a.conn.transaction_with_behavior(TransactionBehavior::Immediate).map_err(storage)?;
         register::create_schema(&tx).map_err(storage)?;
         tx.commit().map_err(storage)?;
         Ok(a)
@@ -226,13 +209,8 @@ impl Archive {
         let conn = Connection::open(root.join(REGISTER_FILE)).map_err(storage)?;
         conn.busy_timeout(BUSY_TIMEOUT).map_err(storage)?;
         // Full sync: a committed revision survives a power cut, not only a kill.
-        conn.execute_batch("PRAGMA synchronous = FULL;")
-            .map_err(storage)?;
-        Ok(Archive {
-            root: root.to_path_buf(),
-            objects: ObjectStore::new(root),
-            conn,
-        })
+        conn.execute_batch("PRAGMA synchronous = FULL;").map_err(storage)?;
+        Ok(Archive { root: root.to_path_buf(), objects: ObjectStore::new(root), conn })
     }
 
     /// The archive folder.
@@ -269,25 +247,18 @@ impl Archive {
             return Ok(IssueOutcome::AlreadyIssued(done));
         }
         for (n, (_, bytes)) in package.contents.iter().enumerate() {
-            self.objects
-                .put(bytes)
-                .map_err(|e| ArchiveError::Storage(format!("cannot store a file: {e}")))?;
+            self.objects.put(bytes).map_err(|e| ArchiveError::Storage(format!("cannot store a file: {e}")))?;
             if n == 0 {
                 test_hook("after-first-object");
             }
         }
         test_hook("after-objects");
 
-        let tx = self
-            .conn
-            .transaction_with_behavior(TransactionBehavior::Immediate)
-            .map_err(storage)?;
+        let tx = self.conn.transaction_with_behavior(TransactionBehavior::Immediate).map_err(storage)?;
         test_hook("after-lock");
         // Again under the write lock: another process may have issued the
         // same revision meanwhile.
-        if let Some(r) = register::find(&tx, &manifest.document.number, &manifest.document.revision)
-            .map_err(storage)?
-        {
+        if let Some(r) = register::find(&tx, &manifest.document.number, &manifest.document.revision).map_err(storage)? {
             return compare_existing(r, &package.files);
         }
         let previous = register::current(&tx, &manifest.document.number).map_err(storage)?;
@@ -306,10 +277,7 @@ impl Archive {
             issued_by: issued_by.to_string(),
             issued_at: clock.now(),
             supersedes: previous.as_ref().map(|p| p.revision.clone()),
-            prev_hash: last
-                .as_ref()
-                .map(|r| r.record_hash.clone())
-                .unwrap_or_else(|| GENESIS.to_string()),
+            prev_hash: last.as_ref().map(|r| r.record_hash.clone()).unwrap_or_else(|| GENESIS.to_string()),
             record_hash: String::new(),
             status: Status::Current,
             superseded_by: None,
@@ -327,18 +295,8 @@ impl Archive {
         Ok(IssueOutcome::Issued(record))
     }
 
-    fn already(
-        &self,
-        manifest: &Manifest,
-        files: &[StoredFile],
-    ) -> Result<Option<Record>, ArchiveError> {
-        match register::find(
-            &self.conn,
-            &manifest.document.number,
-            &manifest.document.revision,
-        )
-        .map_err(storage)?
-        {
+    fn already(&self, manifest: &Manifest, files: &[StoredFile]) -> Result<Option<Record>, ArchiveError> {
+        match register::find(&self.conn, &manifest.document.number, &manifest.document.revision).map_err(storage)? {
             None => Ok(None),
             Some(r) => match compare_existing(r, files)? {
                 IssueOutcome::AlreadyIssued(r) | IssueOutcome::Issued(r) => Ok(Some(r)),
@@ -353,11 +311,7 @@ impl Archive {
 
     /// The current revision of every document, sorted by document number.
     pub fn list(&self) -> Result<Vec<Record>, ArchiveError> {
-        let mut out: Vec<Record> = self
-            .records()?
-            .into_iter()
-            .filter(|r| r.status == Status::Current)
-            .collect();
+        let mut out: Vec<Record> = self.records()?.into_iter().filter(|r| r.status == Status::Current).collect();
         out.sort_by(|a, b| a.document.cmp(&b.document));
         Ok(out)
     }
@@ -391,44 +345,31 @@ impl Archive {
         for (i, r) in records.iter().enumerate() {
             let name = format!("record {} ({} revision {})", r.seq, r.document, r.revision);
             if r.seq != i as i64 + 1 {
-                problems.push(format!(
-                    "{name}: expected record {} here; a record was removed",
-                    i + 1
-                ));
+                problems.push(format!("{name}: expected record {} here; a record was removed", i + 1));
             }
             if r.prev_hash != prev {
-                problems.push(format!(
-                    "{name}: broken link, it does not carry the hash of the record before it"
-                ));
+                problems.push(format!("{name}: broken link, it does not carry the hash of the record before it"));
             }
             if r.compute_hash() != r.record_hash {
-                problems.push(format!(
-                    "{name}: the row was edited after issue (its hash no longer matches its content)"
-                ));
+                problems
+                    .push(format!("{name}: the row was edited after issue (its hash no longer matches its content)"));
             }
             prev = r.record_hash.clone();
             for f in &r.files {
                 files_checked += 1;
                 match self.objects.check(&f.sha256, f.bytes) {
                     ObjectState::Intact => {}
-                    ObjectState::Changed => problems.push(format!(
-                        "{name}: stored file {} was changed (object {})",
-                        f.name, f.sha256
-                    )),
-                    ObjectState::Missing => problems.push(format!(
-                        "{name}: stored file {} is missing (object {})",
-                        f.name, f.sha256
-                    )),
+                    ObjectState::Changed => {
+                        problems.push(format!("{name}: stored file {} was changed (object {})", f.name, f.sha256))
+                    }
+                    ObjectState::Missing => {
+                        problems.push(format!("{name}: stored file {} is missing (object {})", f.name, f.sha256))
+                    }
                 }
             }
             if let Some(m) = self.stored_manifest(r) {
-                if m.digest != r.digest
-                    || m.document.number != r.document
-                    || m.document.revision != r.revision
-                {
-                    problems.push(format!(
-                        "{name}: the stored manifest names another document, revision or digest"
-                    ));
+                if m.digest != r.digest || m.document.number != r.document || m.document.revision != r.revision {
+                    problems.push(format!("{name}: the stored manifest names another document, revision or digest"));
                 }
             }
         }
@@ -438,9 +379,7 @@ impl Archive {
         let last_hash = records.last().map(|r| r.record_hash.clone());
         let head_ok = match &last_hash {
             None => head.is_none(),
-            Some(h) => {
-                head.as_deref() == Some(h.as_str()) && count == Some(records.len().to_string())
-            }
+            Some(h) => head.as_deref() == Some(h.as_str()) && count == Some(records.len().to_string()),
         };
         if !head_ok {
             problems.push(
@@ -496,16 +435,8 @@ fn status_problems(records: &[Record], words: &[(i64, String)]) -> Vec<String> {
         let revs: Vec<&Record> = records.iter().filter(|r| r.document == doc).collect();
         for (i, r) in revs.iter().enumerate() {
             let next = revs.get(i + 1).map(|n| n.revision.as_str());
-            let word = words
-                .iter()
-                .find(|(s, _)| *s == r.seq)
-                .map(|(_, w)| w.as_str())
-                .unwrap_or("");
-            let expected = if next.is_some() {
-                "superseded"
-            } else {
-                "current"
-            };
+            let word = words.iter().find(|(s, _)| *s == r.seq).map(|(_, w)| w.as_str()).unwrap_or("");
+            let expected = if next.is_some() { "superseded" } else { "current" };
             if word != expected || r.superseded_by.as_deref() != next {
                 out.push(format!(
                     "record {} ({doc} revision {}): marked `{word}`{}, but the chain says {expected}{}",
@@ -544,20 +475,14 @@ fn compare_existing(r: Record, files: &[StoredFile]) -> Result<IssueOutcome, Arc
         .collect();
     differing.sort();
     differing.dedup();
-    Err(ArchiveError::Conflict {
-        document: r.document,
-        revision: r.revision,
-        differing,
-    })
+    Err(ArchiveError::Conflict { document: r.document, revision: r.revision, differing })
 }
 
 /// Checks the issuer's name.
 pub fn check_issuer(issued_by: &str) -> Result<&str, ArchiveError> {
     let issued_by = issued_by.trim();
     if issued_by.is_empty() || issued_by.chars().any(char::is_control) {
-        return Err(ArchiveError::Input(
-            "say who issues the revision with --by NAME".into(),
-        ));
+        return Err(ArchiveError::Input("say who issues the revision with --by NAME".into()));
     }
     Ok(issued_by)
 }
@@ -574,13 +499,9 @@ impl PreparedPackage {
     /// Reads and checks the package in `dir` (choosing among several
     /// manifests by `document`). Nothing is written.
     pub fn read(dir: &Path, document: Option<&str>) -> Result<PreparedPackage, ArchiveError> {
-        let (manifest_path, manifest) =
-            select_manifest(dir, document).map_err(ArchiveError::Input)?;
+        let (manifest_path, manifest) = select_manifest(dir, document).map_err(ArchiveError::Input)?;
         let collected = collect_package(dir, &manifest_path, &manifest)?;
-        Ok(PreparedPackage {
-            manifest,
-            collected,
-        })
+        Ok(PreparedPackage { manifest, collected })
     }
 
     /// The package's manifest.
@@ -600,25 +521,11 @@ struct Collected {
 
 /// Reads and checks every file of the package: the listed files must match
 /// the manifest and every listed signature must be valid for it.
-fn collect_package(
-    dir: &Path,
-    manifest_path: &Path,
-    manifest: &Manifest,
-) -> Result<Collected, ArchiveError> {
+fn collect_package(dir: &Path, manifest_path: &Path, manifest: &Manifest) -> Result<Collected, ArchiveError> {
     let bad: Vec<String> = check_files(dir, manifest)
         .into_iter()
         .filter(|(_, s)| *s != FileState::Intact)
-        .map(|(f, s)| {
-            format!(
-                "{} {}",
-                f.name,
-                if s == FileState::Missing {
-                    "missing"
-                } else {
-                    "changed"
-                }
-            )
-        })
+        .map(|(f, s)| format!("{} {}", f.name, if s == FileState::Missing { "missing" } else { "changed" }))
         .collect();
     if !bad.is_empty() {
         return Err(ArchiveError::PackageInvalid(format!(
@@ -633,15 +540,9 @@ fn collect_package(
         .map(|r| format!("{} ({})", r.role, r.file))
         .collect();
     if !invalid.is_empty() {
-        return Err(ArchiveError::PackageInvalid(format!(
-            "invalid signatures: {}",
-            invalid.join(", ")
-        )));
+        return Err(ArchiveError::PackageInvalid(format!("invalid signatures: {}", invalid.join(", "))));
     }
-    let manifest_name = manifest_path
-        .file_name()
-        .map(|n| n.to_string_lossy().into_owned())
-        .unwrap_or_default();
+    let manifest_name = manifest_path.file_name().map(|n| n.to_string_lossy().into_owned()).unwrap_or_default();
     let mut names: Vec<String> = manifest.files.iter().map(|f| f.name.clone()).collect();
     names.extend(manifest.signatures.iter().map(|s| s.file.clone()));
     names.push(manifest_name.clone());
@@ -650,33 +551,18 @@ fn collect_package(
     let mut files = Vec::new();
     let mut contents = Vec::new();
     for name in names {
-        let path = crate::package::manifest::safe_join(dir, &name).ok_or_else(|| {
-            ArchiveError::PackageInvalid(format!("file name `{name}` leaves the package"))
-        })?;
-        let bytes = std::fs::read(&path)
-            .map_err(|e| ArchiveError::Input(format!("cannot read `{}`: {e}", path.display())))?;
-        files.push(StoredFile {
-            name: name.clone(),
-            sha256: sha256_hex(&bytes),
-            bytes: bytes.len() as u64,
-        });
+        let path = crate::package::manifest::safe_join(dir, &name)
+            .ok_or_else(|| ArchiveError::PackageInvalid(format!("file name `{name}` leaves the package")))?;
+        let bytes =
+            std::fs::read(&path).map_err(|e| ArchiveError::Input(format!("cannot read `{}`: {e}", path.display())))?;
+        files.push(StoredFile { name: name.clone(), sha256: sha256_hex(&bytes), bytes: bytes.len() as u64 });
         contents.push((name, bytes));
     }
     let signatures = reports
         .into_iter()
-        .map(|r| SignatureRecord {
-            role: r.role,
-            signer: r.signer,
-            date: r.date,
-            fingerprint: r.fingerprint,
-        })
+        .map(|r| SignatureRecord { role: r.role, signer: r.signer, date: r.date, fingerprint: r.fingerprint })
         .collect();
-    Ok(Collected {
-        manifest_name,
-        files,
-        contents,
-        signatures,
-    })
+    Ok(Collected { manifest_name, files, contents, signatures })
 }
 
 #[cfg(test)]

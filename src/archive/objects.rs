@@ -29,19 +29,14 @@ pub struct ObjectStore {
 impl ObjectStore {
     /// The store inside `archive`.
     pub fn new(archive: &Path) -> ObjectStore {
-        ObjectStore {
-            root: archive.join(OBJECTS_DIR),
-        }
+        ObjectStore { root: archive.join(OBJECTS_DIR) }
     }
 
     /// Where the object with this hash lives, or `None` when the hash is
     /// not 64 lower-case hex digits (a hostile manifest or register row
     /// must not steer a path).
     pub fn path_of(&self, sha256: &str) -> Option<PathBuf> {
-        let ok = sha256.len() == 64
-            && sha256
-                .bytes()
-                .all(|c| c.is_ascii_digit() || (b'a'..=b'f').contains(&c));
+        let ok = sha256.len() == 64 && sha256.bytes().all(|c| c.is_ascii_digit() || (b'a'..=b'f').contains(&c));
         ok.then(|| self.root.join(&sha256[..2]).join(sha256))
     }
 
@@ -50,9 +45,7 @@ impl ObjectStore {
     /// killed process leaves either no object or a whole one.
     pub fn put(&self, bytes: &[u8]) -> std::io::Result<String> {
         let sha = sha256_hex(bytes);
-        let path = self
-            .path_of(&sha)
-            .ok_or_else(|| std::io::Error::other("bad object hash"))?;
+        let path = self.path_of(&sha).ok_or_else(|| std::io::Error::other("bad object hash"))?;
         if self.check(&sha, bytes.len() as u64) == ObjectState::Intact {
             return Ok(sha);
         }
@@ -68,9 +61,7 @@ impl ObjectStore {
         match self.path_of(sha256).map(std::fs::read) {
             None => ObjectState::Missing,
             Some(Err(_)) => ObjectState::Missing,
-            Some(Ok(b)) if b.len() as u64 == bytes && sha256_hex(&b) == sha256 => {
-                ObjectState::Intact
-            }
+            Some(Ok(b)) if b.len() as u64 == bytes && sha256_hex(&b) == sha256 => ObjectState::Intact,
             Some(Ok(_)) => ObjectState::Changed,
         }
     }
@@ -87,10 +78,7 @@ mod tests {
         let store = ObjectStore::new(&dir);
         let sha = store.put(b"abc").unwrap();
         // FIPS 180-2, Appendix B.1: SHA-256("abc").
-        assert_eq!(
-            sha,
-            "ba7816bf8f01cfea414140de5dae2223b00361a396177a9cb410ff61f20015ad"
-        );
+        assert_eq!(sha, "ba7816bf8f01cfea414140de5dae2223b00361a396177a9cb410ff61f20015ad");
         assert_eq!(store.check(&sha, 3), ObjectState::Intact);
         let path = store.path_of(&sha).unwrap();
         std::fs::write(&path, b"abd").unwrap();

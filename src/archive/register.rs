@@ -116,28 +116,14 @@ impl Record {
         out.push_str(&format!("design-status: {}\n", q(&self.design_status)));
         out.push_str(&format!("manifest: {}\n", q(&self.manifest)));
         for f in &self.files {
-            out.push_str(&format!(
-                "file: {} {} {}\n",
-                q(&f.sha256),
-                f.bytes,
-                q(&f.name)
-            ));
+            out.push_str(&format!("file: {} {} {}\n", q(&f.sha256), f.bytes, q(&f.name)));
         }
         for s in &self.signatures {
-            out.push_str(&format!(
-                "signature: {} {} {} {}\n",
-                q(&s.role),
-                q(&s.signer),
-                q(&s.date),
-                q(&s.fingerprint)
-            ));
+            out.push_str(&format!("signature: {} {} {} {}\n", q(&s.role), q(&s.signer), q(&s.date), q(&s.fingerprint)));
         }
         out.push_str(&format!("issued-by: {}\n", q(&self.issued_by)));
         out.push_str(&format!("issued-at: {}\n", q(&self.issued_at)));
-        out.push_str(&format!(
-            "supersedes: {}\n",
-            q(self.supersedes.as_deref().unwrap_or(""))
-        ));
+        out.push_str(&format!("supersedes: {}\n", q(self.supersedes.as_deref().unwrap_or(""))));
         out.push_str(&format!("prev: {}\n", q(&self.prev_hash)));
         out
     }
@@ -176,10 +162,7 @@ pub fn create_schema(conn: &Connection) -> rusqlite::Result<()> {
              UNIQUE (document, revision)
          );",
     )?;
-    conn.execute(
-        "INSERT OR IGNORE INTO register_meta (key, value) VALUES ('format', ?1)",
-        params![REGISTER_FORMAT],
-    )?;
+    conn.execute("INSERT OR IGNORE INTO register_meta (key, value) VALUES ('format', ?1)", params![REGISTER_FORMAT])?;
     Ok(())
 }
 
@@ -210,11 +193,7 @@ fn from_row(row: &Row<'_>) -> rusqlite::Result<Record> {
         prev_hash: row.get(13)?,
         record_hash: row.get(14)?,
         // An unknown word reads as superseded; verify reports the mismatch.
-        status: if status == "current" {
-            Status::Current
-        } else {
-            Status::Superseded
-        },
+        status: if status == "current" { Status::Current } else { Status::Superseded },
         superseded_by: row.get(16)?,
     })
 }
@@ -235,9 +214,7 @@ pub fn all(conn: &Connection) -> rusqlite::Result<Vec<Record>> {
 
 /// The records of one document in chain order.
 pub fn of_document(conn: &Connection, document: &str) -> rusqlite::Result<Vec<Record>> {
-    let mut st = conn.prepare(&format!(
-        "SELECT {COLUMNS} FROM issued WHERE document = ?1 ORDER BY seq"
-    ))?;
+    let mut st = conn.prepare(&format!("SELECT {COLUMNS} FROM issued WHERE document = ?1 ORDER BY seq"))?;
     let rows = st.query_map(params![document], from_row)?;
     rows.collect()
 }
@@ -254,20 +231,13 @@ pub fn find(conn: &Connection, document: &str, revision: &str) -> rusqlite::Resu
 
 /// The last record of the chain.
 pub fn last(conn: &Connection) -> rusqlite::Result<Option<Record>> {
-    conn.query_row(
-        &format!("SELECT {COLUMNS} FROM issued ORDER BY seq DESC LIMIT 1"),
-        [],
-        from_row,
-    )
-    .optional()
+    conn.query_row(&format!("SELECT {COLUMNS} FROM issued ORDER BY seq DESC LIMIT 1"), [], from_row).optional()
 }
 
 /// The current revision of a document.
 pub fn current(conn: &Connection, document: &str) -> rusqlite::Result<Option<Record>> {
     conn.query_row(
-        &format!(
-            "SELECT {COLUMNS} FROM issued WHERE document = ?1 AND status = 'current' ORDER BY seq DESC LIMIT 1"
-        ),
+        &format!("SELECT {COLUMNS} FROM issued WHERE document = ?1 AND status = 'current' ORDER BY seq DESC LIMIT 1"),
         params![document],
         from_row,
     )
@@ -307,21 +277,13 @@ pub fn insert(conn: &Connection, r: &Record) -> rusqlite::Result<()> {
 
 /// Marks a revision superseded by `by`.
 pub fn mark_superseded(conn: &Connection, seq: i64, by: &str) -> rusqlite::Result<()> {
-    conn.execute(
-        "UPDATE issued SET status = 'superseded', superseded_by = ?1 WHERE seq = ?2",
-        params![by, seq],
-    )?;
+    conn.execute("UPDATE issued SET status = 'superseded', superseded_by = ?1 WHERE seq = ?2", params![by, seq])?;
     Ok(())
 }
 
 /// A metadata value.
 pub fn meta(conn: &Connection, key: &str) -> rusqlite::Result<Option<String>> {
-    conn.query_row(
-        "SELECT value FROM register_meta WHERE key = ?1",
-        params![key],
-        |r| r.get(0),
-    )
-    .optional()
+    conn.query_row("SELECT value FROM register_meta WHERE key = ?1", params![key], |r| r.get(0)).optional()
 }
 
 /// Sets a metadata value.

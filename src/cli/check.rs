@@ -52,11 +52,7 @@ fn opt(u: UnitSystem, q: Option<crate::units::Quantity>, up: bool) -> String {
     match q {
         None => "n/a".to_string(),
         Some(q) => {
-            let s = if up {
-                u.display_up(q)
-            } else {
-                u.display_down(q)
-            };
+            let s = if up { u.display_up(q) } else { u.display_down(q) };
             // The unit is in the column header.
             s.split(' ').next().unwrap_or("").to_string()
         }
@@ -71,16 +67,8 @@ pub fn summary_text(ev: &Evaluated) -> String {
     let lu = u.unit(crate::units::Kind::Length).0;
     let pu = u.unit(crate::units::Kind::Pressure).0;
     let mut out = String::new();
-    out.push_str(&format!(
-        "{} revision {}  {}\n",
-        d.document.number, d.document.revision, d.document.title
-    ));
-    out.push_str(&format!(
-        "{} (edition {}), report units {}\n\n",
-        c.rule_set_title,
-        c.edition,
-        u.name()
-    ));
+    out.push_str(&format!("{} revision {}  {}\n", d.document.number, d.document.revision, d.document.title));
+    out.push_str(&format!("{} (edition {}), report units {}\n\n", c.rule_set_title, c.edition, u.name()));
     let header = [
         "component".to_string(),
         "type".to_string(),
@@ -97,20 +85,13 @@ pub fn summary_text(ev: &Evaluated) -> String {
             r.type_name.clone(),
             opt(u, r.required_thickness, true),
             opt(u, r.minimum_thickness, true),
-            r.nominal_thickness
-                .map(|t| opt(u, Some(t), true))
-                .unwrap_or_else(|| "not given".into()),
+            r.nominal_thickness.map(|t| opt(u, Some(t), true)).unwrap_or_else(|| "not given".into()),
             opt(u, r.mawp, false),
-            if r.acceptable {
-                "acceptable".into()
-            } else {
-                "NOT ACCEPTABLE".into()
-            },
+            if r.acceptable { "acceptable".into() } else { "NOT ACCEPTABLE".into() },
         ]);
     }
-    let widths: Vec<usize> = (0..rows[0].len())
-        .map(|i| rows.iter().map(|r| r[i].chars().count()).max().unwrap_or(0))
-        .collect();
+    let widths: Vec<usize> =
+        (0..rows[0].len()).map(|i| rows.iter().map(|r| r[i].chars().count()).max().unwrap_or(0)).collect();
     for (n, row) in rows.iter().enumerate() {
         let cells: Vec<String> = row
             .iter()
@@ -127,13 +108,7 @@ pub fn summary_text(ev: &Evaluated) -> String {
         out.push_str(cells.join("  ").trim_end());
         out.push('\n');
         if n == 0 {
-            out.push_str(
-                &widths
-                    .iter()
-                    .map(|w| "-".repeat(*w))
-                    .collect::<Vec<_>>()
-                    .join("  "),
-            );
+            out.push_str(&widths.iter().map(|w| "-".repeat(*w)).collect::<Vec<_>>().join("  "));
             out.push('\n');
         }
     }
@@ -142,20 +117,10 @@ pub fn summary_text(ev: &Evaluated) -> String {
     out.push_str(&format!(
         "vessel MAWP at the top       {} (governed by {})\n",
         u.display_down(v.mawp),
-        if v.governing_component.is_empty() {
-            "no component"
-        } else {
-            &v.governing_component
-        }
+        if v.governing_component.is_empty() { "no component" } else { &v.governing_component }
     ));
-    out.push_str(&format!(
-        "hydrostatic test, UG-99(b)   {}\n",
-        u.display_up(v.hydrotest_pressure)
-    ));
-    out.push_str(&format!(
-        "pneumatic test, UG-100       {}\n",
-        u.display_up(v.pneumatic_test_pressure)
-    ));
+    out.push_str(&format!("hydrostatic test, UG-99(b)   {}\n", u.display_up(v.hydrotest_pressure)));
+    out.push_str(&format!("pneumatic test, UG-100       {}\n", u.display_up(v.pneumatic_test_pressure)));
     let failed = c.failed_checks();
     if !failed.is_empty() {
         out.push_str("\nfailed checks:\n");
@@ -163,14 +128,7 @@ pub fn summary_text(ev: &Evaluated) -> String {
             out.push_str(&format!("  {id}: {} ({}): {}\n", k.name, k.clause, k.note));
         }
     }
-    out.push_str(&format!(
-        "\nstatus: {}\n",
-        if c.acceptable() {
-            "ACCEPTABLE"
-        } else {
-            "NOT ACCEPTABLE"
-        }
-    ));
+    out.push_str(&format!("\nstatus: {}\n", if c.acceptable() { "ACCEPTABLE" } else { "NOT ACCEPTABLE" }));
     out.push_str("\nThis output supports, never replaces, a qualified engineer; verify against the code edition in force\nand local regulations; the calculation is subject to review by a licensed or authorised engineer.\n");
     out
 }

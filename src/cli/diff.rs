@@ -28,11 +28,8 @@ enum Side {
 
 fn load(path: &Path) -> Result<Side, String> {
     let results_path = if path.is_dir() {
-        let (_, m) = select_manifest(path, None).map_err(|e| {
-            format!(
-                "{e}; or name the package's results file (`<number>_rev<revision>.json`) directly"
-            )
-        })?;
+        let (_, m) = select_manifest(path, None)
+            .map_err(|e| format!("{e}; or name the package's results file (`<number>_rev<revision>.json`) directly"))?;
         Some(path.join(format!("{}.json", m.stem())))
     } else if path.extension().is_some_and(|e| e == "json") {
         Some(path.to_path_buf())
@@ -41,19 +38,17 @@ fn load(path: &Path) -> Result<Side, String> {
     };
     match results_path {
         Some(p) => {
-            let text = std::fs::read_to_string(&p)
-                .map_err(|e| format!("cannot read results file `{}`: {e}", p.display()))?;
-            let v: serde_json::Value = serde_json::from_str(&text)
-                .map_err(|e| format!("`{}` is not JSON: {e}", p.display()))?;
+            let text =
+                std::fs::read_to_string(&p).map_err(|e| format!("cannot read results file `{}`: {e}", p.display()))?;
+            let v: serde_json::Value =
+                serde_json::from_str(&text).map_err(|e| format!("`{}` is not JSON: {e}", p.display()))?;
             Snapshot::from_results(&v).map_err(|e| format!("`{}`: {e}", p.display()))?;
             Ok(Side::Results(v))
         }
         None => {
             let source = std::fs::read_to_string(path)
                 .map_err(|e| format!("cannot read case file `{}`: {e}", path.display()))?;
-            evaluate(&path.display().to_string(), &source)
-                .map(|ev| Side::Case(Box::new(ev)))
-                .map_err(|e| e.render())
+            evaluate(&path.display().to_string(), &source).map(|ev| Side::Case(Box::new(ev))).map_err(|e| e.render())
         }
     }
 }
@@ -61,9 +56,7 @@ fn load(path: &Path) -> Result<Side, String> {
 fn as_results(side: &Side) -> serde_json::Value {
     match side {
         Side::Results(v) => v.clone(),
-        Side::Case(ev) => {
-            crate::results::results_json(&ev.design, &ev.calculation, &Default::default())
-        }
+        Side::Case(ev) => crate::results::results_json(&ev.design, &ev.calculation, &Default::default()),
     }
 }
 
@@ -79,9 +72,7 @@ pub fn run(a: &Args) -> i32 {
     // Two case files compare on their full inputs; otherwise both sides are
     // read as results files, so that their inputs are named alike.
     let snapshots = match (&old, &new) {
-        (Side::Case(o), Side::Case(n)) => {
-            Ok((Snapshot::from_evaluated(o), Snapshot::from_evaluated(n)))
-        }
+        (Side::Case(o), Side::Case(n)) => Ok((Snapshot::from_evaluated(o), Snapshot::from_evaluated(n))),
         _ => Snapshot::from_results(&as_results(&old))
             .and_then(|o| Snapshot::from_results(&as_results(&new)).map(|n| (o, n))),
     };

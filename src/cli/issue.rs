@@ -2,8 +2,7 @@
 
 use super::{EXIT_INPUT, EXIT_NOT_ACCEPTABLE, EXIT_OK};
 use crate::archive::{
-    check_issuer, valid_timestamp, Archive, ArchiveError, Clock, FixedClock, IssueOutcome,
-    PreparedPackage, SystemClock,
+    check_issuer, valid_timestamp, Archive, ArchiveError, Clock, FixedClock, IssueOutcome, PreparedPackage, SystemClock,
 };
 use std::path::PathBuf;
 
@@ -44,9 +43,8 @@ pub fn run(a: &Args) -> i32 {
             .or_else(|| std::env::var("LOGNAME").ok())
             .unwrap_or_default();
     // Everything is checked before the archive is created or touched.
-    let result = check_issuer(&by)
-        .and_then(|_| PreparedPackage::read(&a.package, a.document.as_deref()))
-        .and_then(|package| {
+    let result =
+        check_issuer(&by).and_then(|_| PreparedPackage::read(&a.package, a.document.as_deref())).and_then(|package| {
             Archive::open_or_create(&a.archive)
                 .and_then(|mut archive| archive.issue_prepared(&package, &by, clock.as_ref()))
         });

@@ -68,11 +68,7 @@ fn signers(r: &Record) -> String {
     if r.signatures.is_empty() {
         return "unsigned".into();
     }
-    r.signatures
-        .iter()
-        .map(|s| format!("{}: {}", s.role, s.signer))
-        .collect::<Vec<_>>()
-        .join(", ")
+    r.signatures.iter().map(|s| format!("{}: {}", s.role, s.signer)).collect::<Vec<_>>().join(", ")
 }
 
 fn line(r: &Record) -> String {
@@ -114,17 +110,11 @@ fn detail(r: &Record) -> String {
         out.push_str("    none\n");
     }
     for s in &r.signatures {
-        out.push_str(&format!(
-            "    {:<9} {} on {}, key {}\n",
-            s.role, s.signer, s.date, s.fingerprint
-        ));
+        out.push_str(&format!("    {:<9} {} on {}, key {}\n", s.role, s.signer, s.date, s.fingerprint));
     }
     out.push_str("  files:\n");
     for f in &r.files {
-        out.push_str(&format!(
-            "    {}  {:>9} bytes  {}\n",
-            f.sha256, f.bytes, f.name
-        ));
+        out.push_str(&format!("    {}  {:>9} bytes  {}\n", f.sha256, f.bytes, f.name));
     }
     out.push_str(&format!("  record hash {}\n", r.record_hash));
     out
@@ -156,11 +146,7 @@ pub fn run(a: &Args) -> i32 {
             }
             EXIT_OK
         }),
-        Action::Show {
-            document,
-            revision,
-            common,
-        } => archive.show(document, revision.as_deref()).map(|r| {
+        Action::Show { document, revision, common } => archive.show(document, revision.as_deref()).map(|r| {
             if common.json {
                 print_json(&r)
             } else {
@@ -182,11 +168,7 @@ pub fn run(a: &Args) -> i32 {
             EXIT_OK
         }),
         Action::Verify(c) => archive.verify().map(|v| {
-            let code = if v.intact() {
-                EXIT_OK
-            } else {
-                EXIT_NOT_ACCEPTABLE
-            };
+            let code = if v.intact() { EXIT_OK } else { EXIT_NOT_ACCEPTABLE };
             if c.json {
                 let printed = print_json(&v);
                 return if printed == EXIT_OK { code } else { printed };
@@ -194,18 +176,8 @@ pub fn run(a: &Args) -> i32 {
             for p in &v.problems {
                 println!("PROBLEM: {p}");
             }
-            println!(
-                "{} records, {} stored files re-hashed; chain head {}",
-                v.records, v.files_checked, v.head
-            );
-            println!(
-                "{}",
-                if v.intact() {
-                    "archive intact"
-                } else {
-                    "archive NOT intact"
-                }
-            );
+            println!("{} records, {} stored files re-hashed; chain head {}", v.records, v.files_checked, v.head);
+            println!("{}", if v.intact() { "archive intact" } else { "archive NOT intact" });
             code
         }),
     };

@@ -45,10 +45,7 @@ pub fn run(a: &Args) -> i32 {
             return EXIT_INPUT;
         }
     };
-    let date = a
-        .date
-        .clone()
-        .unwrap_or_else(|| manifest.document.date.clone());
+    let date = a.date.clone().unwrap_or_else(|| manifest.document.date.clone());
     match sign_package(&path, a.role, &key, &date, a.replace) {
         Ok(file) => {
             println!(

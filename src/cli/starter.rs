@@ -10,10 +10,7 @@ pub const STARTER: &str = include_str!("starter.toml");
 /// Writes the starter file, refusing to overwrite.
 pub fn write_new(path: &Path) -> i32 {
     if path.exists() {
-        eprintln!(
-            "error: `{}` already exists; choose another path (nothing was written)",
-            path.display()
-        );
+        eprintln!("error: `{}` already exists; choose another path (nothing was written)", path.display());
         return EXIT_INPUT;
     }
     match crate::fsio::write_atomic(path, STARTER.as_bytes()) {
@@ -35,10 +32,7 @@ fn quantity(desc: &str, example: &str) -> Value {
 /// The JSON Schema (draft 2020-12) of the case file.
 pub fn schema() -> Value {
     let component_types: Vec<&str> = crate::model::COMPONENT_TYPES.to_vec();
-    let shapes: Vec<&str> = crate::model::TorisphereShape::ALL
-        .iter()
-        .map(|(n, _)| *n)
-        .collect();
+    let shapes: Vec<&str> = crate::model::TorisphereShape::ALL.iter().map(|(n, _)| *n).collect();
     json!({
         "$schema": "https://json-schema.org/draft/2020-12/schema",
         "title": "Knuckle case file",
@@ -145,15 +139,10 @@ mod tests {
         // parse fail with "unknown field"; the reverse is covered by the
         // parser's deny_unknown_fields.
         let s = schema();
-        let props = s["properties"]["component"]["items"]["properties"]
-            .as_object()
-            .unwrap();
+        let props = s["properties"]["component"]["items"]["properties"].as_object().unwrap();
         for key in props.keys() {
             let text = format!("{STARTER}\n[[component]]\n{key} = \"1 mm\"\n");
-            let err = crate::case::parse_case("x.toml", &text)
-                .err()
-                .map(|e| e.render())
-                .unwrap_or_default();
+            let err = crate::case::parse_case("x.toml", &text).err().map(|e| e.render()).unwrap_or_default();
             assert!(!err.contains("unknown field"), "{key}: {err}");
         }
     }

@@ -110,13 +110,9 @@ impl Manifest {
 
     /// Parses manifest text.
     pub fn from_json(text: &str) -> Result<Manifest, String> {
-        let m: Manifest =
-            serde_json::from_str(text).map_err(|e| format!("not a valid manifest: {e}"))?;
+        let m: Manifest = serde_json::from_str(text).map_err(|e| format!("not a valid manifest: {e}"))?;
         if m.format != MANIFEST_FORMAT {
-            return Err(format!(
-                "unknown manifest format `{}` (expected `{MANIFEST_FORMAT}`)",
-                m.format
-            ));
+            return Err(format!("unknown manifest format `{}` (expected `{MANIFEST_FORMAT}`)", m.format));
         }
         Ok(m)
     }
@@ -137,11 +133,7 @@ pub fn find_manifests(dir: &Path) -> std::io::Result<Vec<PathBuf>> {
     let mut out: Vec<PathBuf> = std::fs::read_dir(dir)?
         .filter_map(|e| e.ok())
         .map(|e| e.path())
-        .filter(|p| {
-            p.file_name()
-                .map(|n| n.to_string_lossy().ends_with(MANIFEST_SUFFIX))
-                .unwrap_or(false)
-        })
+        .filter(|p| p.file_name().map(|n| n.to_string_lossy().ends_with(MANIFEST_SUFFIX)).unwrap_or(false))
         .collect();
     out.sort();
     Ok(out)
@@ -166,9 +158,7 @@ pub fn check_files(dir: &Path, m: &Manifest) -> Vec<(FileEntry, FileState)> {
         .map(|f| {
             let state = match safe_join(dir, &f.name).and_then(|p| std::fs::read(p).ok()) {
                 None => FileState::Missing,
-                Some(bytes) if sha256_hex(&bytes) == f.sha256 && bytes.len() as u64 == f.bytes => {
-                    FileState::Intact
-                }
+                Some(bytes) if sha256_hex(&bytes) == f.sha256 && bytes.len() as u64 == f.bytes => FileState::Intact,
                 Some(_) => FileState::Changed,
             };
             (f.clone(), state)
@@ -180,12 +170,7 @@ pub fn check_files(dir: &Path, m: &Manifest) -> Vec<(FileEntry, FileState)> {
 /// leave the directory (absolute paths, `..`), since a manifest may be hostile.
 pub fn safe_join(dir: &Path, name: &str) -> Option<PathBuf> {
     let rel = Path::new(name);
-    if name.is_empty()
-        || rel.is_absolute()
-        || rel
-            .components()
-            .any(|c| !matches!(c, std::path::Component::Normal(_)))
-    {
+    if name.is_empty() || rel.is_absolute() || rel.components().any(|c| !matches!(c, std::path::Component::Normal(_))) {
         return None;
     }
     Some(dir.join(rel))
@@ -198,10 +183,7 @@ mod tests {
     #[test]
     fn sha256_of_abc() {
         // FIPS 180-2, Appendix B.1: SHA-256("abc").
-        assert_eq!(
-            sha256_hex(b"abc"),
-            "ba7816bf8f01cfea414140de5dae2223b00361a396177a9cb410ff61f20015ad"
-        );
+        assert_eq!(sha256_hex(b"abc"), "ba7816bf8f01cfea414140de5dae2223b00361a396177a9cb410ff61f20015ad");
     }
 
     #[test]
@@ -210,9 +192,6 @@ mod tests {
         assert!(safe_join(d, "../x").is_none());
         assert!(safe_join(d, "/etc/passwd").is_none());
         assert!(safe_join(d, "").is_none());
-        assert_eq!(
-            safe_join(d, "figures/a.svg"),
-            Some(PathBuf::from("/tmp/pkg/figures/a.svg"))
-        );
+        assert_eq!(safe_join(d, "figures/a.svg"), Some(PathBuf::from("/tmp/pkg/figures/a.svg")));
     }
 }

@@ -41,20 +41,16 @@ impl PublicKey {
 
     /// Reads a public key file, or the public half of a secret key file.
     pub fn load(path: &Path) -> Result<PublicKey, String> {
-        let text = std::fs::read_to_string(path)
-            .map_err(|e| format!("cannot read key file `{}`: {e}", path.display()))?;
+        let text =
+            std::fs::read_to_string(path).map_err(|e| format!("cannot read key file `{}`: {e}", path.display()))?;
         PublicKey::from_json(&text).map_err(|e| format!("key file `{}`: {e}", path.display()))
     }
 
     /// Parses public key text (either format; only public fields are read).
     pub fn from_json(text: &str) -> Result<PublicKey, String> {
-        let f: PublicKeyFile =
-            serde_json::from_str(text).map_err(|e| format!("not a key file: {e}"))?;
+        let f: PublicKeyFile = serde_json::from_str(text).map_err(|e| format!("not a key file: {e}"))?;
         if f.format != PUBLIC_KEY_FORMAT && f.format != SECRET_KEY_FORMAT {
-            return Err(format!(
-                "unknown key format `{}` (expected `{PUBLIC_KEY_FORMAT}`)",
-                f.format
-            ));
+            return Err(format!("unknown key format `{}` (expected `{PUBLIC_KEY_FORMAT}`)", f.format));
         }
         let key = verifying_key_from_hex(&f.public_key)?;
         if fingerprint(&key) != f.fingerprint {
@@ -89,12 +85,7 @@ pub struct SecretKey {
 impl std::fmt::Debug for SecretKey {
     // The secret must never reach a log or a panic message.
     fn fmt(&self, f: &mut std::fmt::Formatter<'_>) -> std::fmt::Result {
-        write!(
-            f,
-            "SecretKey {{ name: {:?}, fingerprint: {} }}",
-            self.name,
-            fingerprint(&self.key.verifying_key())
-        )
+        write!(f, "SecretKey {{ name: {:?}, fingerprint: {} }}", self.name, fingerprint(&self.key.verifying_key()))
     }
 }
 
@@ -135,36 +126,26 @@ impl SecretKey {
             return Err("the key holder's name contains control characters".into());
         }
         let mut seed = [0u8; 32];
-        getrandom::fill(&mut seed)
-            .map_err(|e| format!("the operating system gave no random bytes: {e}"))?;
+        getrandom::fill(&mut seed).map_err(|e| format!("the operating system gave no random bytes: {e}"))?;
         let key = SigningKey::from_bytes(&seed);
         seed.zeroize();
-        Ok(SecretKey {
-            name: name.to_string(),
-            key,
-        })
+        Ok(SecretKey { name: name.to_string(), key })
     }
 
     /// The public half.
     pub fn public(&self) -> PublicKey {
-        PublicKey {
-            name: self.name.clone(),
-            key: self.key.verifying_key(),
-        }
+        PublicKey { name: self.name.clone(), key: self.key.verifying_key() }
     }
 
     /// Reads a secret key file, checking that its parts belong together.
     pub fn load(path: &Path) -> Result<SecretKey, String> {
-        let mut text = std::fs::read_to_string(path)
-            .map_err(|e| format!("cannot read key file `{}`: {e}", path.display()))?;
+        let mut text =
+            std::fs::read_to_string(path).map_err(|e| format!("cannot read key file `{}`: {e}", path.display()))?;
         let parsed = serde_json::from_str::<SecretKeyFile>(&text);
         text.zeroize();
         let f = parsed.map_err(|_| {
             // serde's message may quote the file, and so the secret: say less.
-            format!(
-                "`{}` is not a secret key file (a `.pub` file cannot sign)",
-                path.display()
-            )
+            format!("`{}` is not a secret key file (a `.pub` file cannot sign)", path.display())
         })?;
         if f.format != SECRET_KEY_FORMAT {
             return Err(format!(
@@ -182,21 +163,12 @@ impl SecretKey {
         let key = SigningKey::from_bytes(&seed);
         seed.zeroize();
         if hex(key.verifying_key().as_bytes()) != f.public_key {
-            return Err(format!(
-                "`{}`: the public key does not belong to the secret key",
-                path.display()
-            ));
+            return Err(format!("`{}`: the public key does not belong to the secret key", path.display()));
         }
         if fingerprint(&key.verifying_key()) != f.fingerprint {
-            return Err(format!(
-                "`{}`: the fingerprint does not belong to the key",
-                path.display()
-            ));
+            return Err(format!("`{}`: the fingerprint does not belong to the key", path.display()));
         }
-        Ok(SecretKey {
-            name: f.name.clone(),
-            key,
-        })
+        Ok(SecretKey { name: f.name.clone(), key })
     }
 
     /// Writes the secret key file (owner-only permissions from the moment
@@ -242,14 +214,8 @@ pub fn public_path(path: &Path) -> std::path::PathBuf {
 /// created with those permissions, so the secret is never readable by
 /// others, not even for a moment, and never half-written under its name.
 fn write_private_new(path: &Path, bytes: &[u8]) -> std::io::Result<()> {
-    let dir = path
-        .parent()
-        .filter(|p| !p.as_os_str().is_empty())
-        .unwrap_or(Path::new("."));
-    let name = path
-        .file_name()
-        .map(|n| n.to_string_lossy().into_owned())
-        .unwrap_or_else(|| "key".into());
+    let dir = path.parent().filter(|p| !p.as_os_str().is_empty()).unwrap_or(Path::new("."));
+    let name = path.file_name().map(|n| n.to_string_lossy().into_owned()).unwrap_or_else(|| "key".into());
     let tmp = dir.join(format!(".{name}.{}.tmp", std::process::id()));
     let mut options = std::fs::OpenOptions::new();
     options.write(true).create_new(true);
@@ -280,9 +246,7 @@ pub fn fingerprint(key: &VerifyingKey) -> String {
 
 /// A verifying key from 64 hex digits.
 pub fn verifying_key_from_hex(text: &str) -> Result<VerifyingKey, String> {
-    let bytes = decode_hex(text)
-        .filter(|b| b.len() == 32)
-        .ok_or("the public key is not 64 hex digits")?;
+    let bytes = decode_hex(text).filter(|b| b.len() == 32).ok_or("the public key is not 64 hex digits")?;
     let mut arr = [0u8; 32];
     arr.copy_from_slice(&bytes);
     VerifyingKey::from_bytes(&arr).map_err(|_| "the public key is not a valid Ed25519 key".into())
@@ -302,9 +266,7 @@ pub fn decode_hex(text: &str) -> Option<Vec<u8>> {
             _ => None,
         }
     };
-    b.chunks(2)
-        .map(|p| Some(digit(p[0])? << 4 | digit(p[1])?))
-        .collect()
+    b.chunks(2).map(|p| Some(digit(p[0])? << 4 | digit(p[1])?)).collect()
 }
 
 #[cfg(test)]

@@ -103,12 +103,7 @@ pub fn statement_text(manifest: &Manifest, role: &str, signer: &str, date: &str)
     out.push_str(&format!("date: {}\n", q(date)));
     out.push_str(&format!("digest: {}\n", q(&manifest.digest)));
     for f in &manifest.files {
-        out.push_str(&format!(
-            "file: {} {} {}\n",
-            q(&f.sha256),
-            f.bytes,
-            q(&f.name)
-        ));
+        out.push_str(&format!("file: {} {} {}\n", q(&f.sha256), f.bytes, q(&f.name)));
     }
     out
 }
@@ -145,46 +140,29 @@ pub fn valid_date(s: &str) -> bool {
 /// manifests, `document` chooses one: either the file stem
 /// (`<number>_rev<revision>`) or a document number held by exactly one.
 pub fn select_manifest(dir: &Path, document: Option<&str>) -> Result<(PathBuf, Manifest), String> {
-    let paths = find_manifests(dir)
-        .map_err(|e| format!("cannot read package directory `{}`: {e}", dir.display()))?;
+    let paths = find_manifests(dir).map_err(|e| format!("cannot read package directory `{}`: {e}", dir.display()))?;
     if paths.is_empty() {
-        return Err(format!(
-            "`{}` holds no package manifest (`*.manifest.json`)",
-            dir.display()
-        ));
+        return Err(format!("`{}` holds no package manifest (`*.manifest.json`)", dir.display()));
     }
     let mut loaded = Vec::new();
     for p in paths {
-        let text = std::fs::read_to_string(&p)
-            .map_err(|e| format!("cannot read `{}`: {e}", p.display()))?;
+        let text = std::fs::read_to_string(&p).map_err(|e| format!("cannot read `{}`: {e}", p.display()))?;
         let m = Manifest::from_json(&text).map_err(|e| format!("`{}`: {e}", p.display()))?;
         loaded.push((p, m));
     }
-    let names = |l: &[(PathBuf, Manifest)]| {
-        l.iter()
-            .map(|(_, m)| m.stem())
-            .collect::<Vec<_>>()
-            .join(", ")
-    };
+    let names = |l: &[(PathBuf, Manifest)]| l.iter().map(|(_, m)| m.stem()).collect::<Vec<_>>().join(", ");
     match document {
         None if loaded.len() == 1 => Ok(loaded.remove(0)),
-        None => Err(format!(
-            "`{}` holds several packages ({}); choose one with --document",
-            dir.display(),
-            names(&loaded)
-        )),
+        None => {
+            Err(format!("`{}` holds several packages ({}); choose one with --document", dir.display(), names(&loaded)))
+        }
         Some(want) => {
             let all = names(&loaded);
-            let mut hits: Vec<_> = loaded
-                .into_iter()
-                .filter(|(_, m)| m.stem() == want || m.document.number == want)
-                .collect();
+            let mut hits: Vec<_> =
+                loaded.into_iter().filter(|(_, m)| m.stem() == want || m.document.number == want).collect();
             match hits.len() {
                 1 => Ok(hits.remove(0)),
-                0 => Err(format!(
-                    "no package `{want}` in `{}` (it holds {all})",
-                    dir.display()
-                )),
+                0 => Err(format!("no package `{want}` in `{}` (it holds {all})", dir.display())),
                 _ => Err(format!(
                     "several revisions of `{want}` in `{}` ({}); give the full name `<number>_rev<revision>`",
                     dir.display(),
@@ -239,18 +217,13 @@ pub fn sign_package(
     date: &str,
     replace: bool,
 ) -> Result<String, SignError> {
-    let dir = manifest_path
-        .parent()
-        .filter(|p| !p.as_os_str().is_empty())
-        .unwrap_or(Path::new("."));
+    let dir = manifest_path.parent().filter(|p| !p.as_os_str().is_empty()).unwrap_or(Path::new("."));
     let text = std::fs::read_to_string(manifest_path)
         .map_err(|e| SignError::Other(format!("cannot read `{}`: {e}", manifest_path.display())))?;
-    let mut manifest = Manifest::from_json(&text)
-        .map_err(|e| SignError::Other(format!("`{}`: {e}", manifest_path.display())))?;
+    let mut manifest =
+        Manifest::from_json(&text).map_err(|e| SignError::Other(format!("`{}`: {e}", manifest_path.display())))?;
     if !valid_date(date) {
-        return Err(SignError::Other(format!(
-            "`{date}` is not a date of the form YYYY-MM-DD"
-        )));
+        return Err(SignError::Other(format!("`{date}` is not a date of the form YYYY-MM-DD")));
     }
     let changed: Vec<String> = check_files(dir, &manifest)
         .into_iter()
@@ -289,16 +262,10 @@ pub fn sign_package(
         .map_err(|e| SignError::Other(format!("cannot write the signature: {e}")))?;
     body.push('\n');
     let rel = format!("{SIGNATURE_DIR}/{}.{}.json", manifest.stem(), role.as_str());
-    let path = safe_join(dir, &rel).ok_or_else(|| {
-        SignError::Other(format!(
-            "the document number makes an unsafe file name `{rel}`"
-        ))
-    })?;
-    let io = |e: std::io::Error, p: &Path| {
-        SignError::Other(format!("cannot write `{}`: {e}", p.display()))
-    };
-    std::fs::create_dir_all(dir.join(SIGNATURE_DIR))
-        .map_err(|e| io(e, &dir.join(SIGNATURE_DIR)))?;
+    let path = safe_join(dir, &rel)
+        .ok_or_else(|| SignError::Other(format!("the document number makes an unsafe file name `{rel}`")))?;
+    let io = |e: std::io::Error, p: &Path| SignError::Other(format!("cannot write `{}`: {e}", p.display()));
+    std::fs::create_dir_all(dir.join(SIGNATURE_DIR)).map_err(|e| io(e, &dir.join(SIGNATURE_DIR)))?;
     // The signature file first, the manifest second: an interruption in
     // between leaves the old manifest, which still verifies on its own.
     crate::fsio::write_atomic(&path, body.as_bytes()).map_err(|e| io(e, &path))?;
@@ -308,11 +275,8 @@ pub fn sign_package(
         file: rel.clone(),
         sha256: sha256_hex(body.as_bytes()),
     });
-    manifest
-        .signatures
-        .sort_by_key(|s| Role::parse(&s.role).map(|r| r as u8).unwrap_or(u8::MAX));
-    crate::fsio::write_atomic(manifest_path, manifest.to_json().as_bytes())
-        .map_err(|e| io(e, manifest_path))?;
+    manifest.signatures.sort_by_key(|s| Role::parse(&s.role).map(|r| r as u8).unwrap_or(u8::MAX));
+    crate::fsio::write_atomic(manifest_path, manifest.to_json().as_bytes()).map_err(|e| io(e, manifest_path))?;
     Ok(rel)
 }
 
@@ -374,19 +338,9 @@ impl SignatureReport {
 }
 
 /// Checks every signature the manifest lists, for the package in `dir`.
-pub fn verify_signatures(
-    dir: &Path,
-    manifest: &Manifest,
-    trusted: &[PublicKey],
-) -> Vec<SignatureReport> {
-    let package_intact = check_files(dir, manifest)
-        .iter()
-        .all(|(_, s)| *s == FileState::Intact);
-    manifest
-        .signatures
-        .iter()
-        .map(|entry| verify_one(dir, manifest, entry, trusted, package_intact))
-        .collect()
+pub fn verify_signatures(dir: &Path, manifest: &Manifest, trusted: &[PublicKey]) -> Vec<SignatureReport> {
+    let package_intact = check_files(dir, manifest).iter().all(|(_, s)| *s == FileState::Intact);
+    manifest.signatures.iter().map(|entry| verify_one(dir, manifest, entry, trusted, package_intact)).collect()
 }
 
 fn verify_one(
@@ -503,11 +457,7 @@ pub fn expected_roles(dir: &Path, manifest: &Manifest) -> Vec<(Role, Option<Stri
         .filter_map(|r| match &sign_off {
             None => Some((r, None)),
             Some(so) => {
-                let name = so
-                    .get(format!("{}_by", r.as_str()))
-                    .and_then(|n| n.as_str())
-                    .map(str::trim)
-                    .unwrap_or("");
+                let name = so.get(format!("{}_by", r.as_str())).and_then(|n| n.as_str()).map(str::trim).unwrap_or("");
                 (!name.is_empty()).then(|| (r, Some(name.to_string())))
             }
         })
@@ -534,9 +484,7 @@ pub struct SignOffReport {
 impl SignOffReport {
     /// True when every expected role carries a signature that approves.
     pub fn complete(&self) -> bool {
-        self.package_intact
-            && self.missing_roles.is_empty()
-            && self.signatures.iter().all(|s| s.approves())
+        self.package_intact && self.missing_roles.is_empty() && self.signatures.iter().all(|s| s.approves())
     }
 }
 
@@ -547,11 +495,7 @@ pub fn signoff_report(dir: &Path, manifest: &Manifest, trusted: &[PublicKey]) ->
     let missing_roles = expected_roles(dir, manifest)
         .into_iter()
         .map(|(r, _)| r)
-        .filter(|r| {
-            !signatures
-                .iter()
-                .any(|s| s.role == r.as_str() && s.state == SignatureState::Valid)
-        })
+        .filter(|r| !signatures.iter().any(|s| s.role == r.as_str() && s.state == SignatureState::Valid))
         .collect();
     SignOffReport {
         document: manifest.document.number.clone(),
@@ -560,11 +504,7 @@ pub fn signoff_report(dir: &Path, manifest: &Manifest, trusted: &[PublicKey]) ->
         package_intact: signatures
             .first()
             .map(|s| s.package_intact)
-            .unwrap_or_else(|| {
-                check_files(dir, manifest)
-                    .iter()
-                    .all(|(_, s)| *s == FileState::Intact)
-            }),
+            .unwrap_or_else(|| check_files(dir, manifest).iter().all(|(_, s)| *s == FileState::Intact)),
         signatures,
         missing_roles,
     }
@@ -572,12 +512,7 @@ pub fn signoff_report(dir: &Path, manifest: &Manifest, trusted: &[PublicKey]) ->
 
 /// The sign-off report in plain words, one line per signature.
 pub fn format_signoff_text(r: &SignOffReport) -> String {
-    let mut out = format!(
-        "sign-off of {} revision {} (digest {})\n",
-        r.document,
-        r.revision,
-        short(&r.digest)
-    );
+    let mut out = format!("sign-off of {} revision {} (digest {})\n", r.document, r.revision, short(&r.digest));
     if r.signatures.is_empty() {
         out.push_str("  no signatures\n");
     }
@@ -587,15 +522,11 @@ pub fn format_signoff_text(r: &SignOffReport) -> String {
             SignatureState::Unreadable(m) => {
                 format!("INVALID: the signature file is unreadable ({m})")
             }
-            SignatureState::FileChanged => {
-                "INVALID: the signature file was changed after signing".to_string()
-            }
+            SignatureState::FileChanged => "INVALID: the signature file was changed after signing".to_string(),
             SignatureState::OtherPackage(m) => {
                 format!("INVALID: the signature belongs to another package or an earlier state of this one ({m})")
             }
-            SignatureState::BadSignature => {
-                "INVALID: the signature does not match this package".to_string()
-            }
+            SignatureState::BadSignature => "INVALID: the signature does not match this package".to_string(),
         };
         let who = if s.signer.is_empty() {
             "unknown signer".to_string()
@@ -604,9 +535,7 @@ pub fn format_signoff_text(r: &SignOffReport) -> String {
         };
         let trust = match (&s.state, s.trusted, &s.trusted_as) {
             (SignatureState::Valid, true, Some(n)) => format!("; key trusted (as {n})"),
-            (SignatureState::Valid, _, _) => {
-                "; key NOT in the trust list, so this is no approval".to_string()
-            }
+            (SignatureState::Valid, _, _) => "; key NOT in the trust list, so this is no approval".to_string(),
             _ => String::new(),
         };
         let files = if s.state == SignatureState::Valid && !s.package_intact {
@@ -618,16 +547,9 @@ pub fn format_signoff_text(r: &SignOffReport) -> String {
     }
     if !r.missing_roles.is_empty() {
         let names: Vec<&str> = r.missing_roles.iter().map(|x| x.as_str()).collect();
-        out.push_str(&format!(
-            "  missing: no valid signature for {}\n",
-            names.join(", ")
-        ));
+        out.push_str(&format!("  missing: no valid signature for {}\n", names.join(", ")));
     }
-    out.push_str(if r.complete() {
-        "  sign-off complete\n"
-    } else {
-        "  sign-off NOT complete\n"
-    });
+    out.push_str(if r.complete() { "  sign-off complete\n" } else { "  sign-off NOT complete\n" });
     out
 }
 
@@ -648,10 +570,7 @@ mod tests {
     fn statement_quotes_every_value() {
         let m = Manifest {
             format: crate::package::manifest::MANIFEST_FORMAT.into(),
-            tool: crate::package::manifest::ToolId {
-                name: "knuckle".into(),
-                version: "0".into(),
-            },
+            tool: crate::package::manifest::ToolId { name: "knuckle".into(), version: "0".into() },
             document: crate::package::manifest::DocumentId {
                 number: "D-1".into(),
                 revision: "A".into(),

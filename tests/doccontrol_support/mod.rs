@@ -4,9 +4,7 @@
 
 #![allow(dead_code)]
 
-use knuckle::package::manifest::{
-    sha256_hex, DocumentId, FileEntry, Manifest, ToolId, MANIFEST_FORMAT,
-};
+use knuckle::package::manifest::{sha256_hex, DocumentId, FileEntry, Manifest, ToolId, MANIFEST_FORMAT};
 use std::path::{Path, PathBuf};
 use std::process::{Command, Output};
 
@@ -42,50 +40,24 @@ pub fn write_package(
         }
     }
     let files: Vec<(String, Vec<u8>)> = vec![
-        (
-            format!("{stem}.md"),
-            format!("# {number} rev {revision}\n\n{body}\n").into_bytes(),
-        ),
-        (
-            format!("{stem}.pdf"),
-            format!("%PDF-1.3 stand-in {body}\n").into_bytes(),
-        ),
-        (
-            format!("{stem}.json"),
-            serde_json::to_string_pretty(&results).unwrap().into_bytes(),
-        ),
-        (
-            format!("figures/{stem}-head.svg"),
-            format!("<svg>{body}</svg>\n").into_bytes(),
-        ),
+        (format!("{stem}.md"), format!("# {number} rev {revision}\n\n{body}\n").into_bytes()),
+        (format!("{stem}.pdf"), format!("%PDF-1.3 stand-in {body}\n").into_bytes()),
+        (format!("{stem}.json"), serde_json::to_string_pretty(&results).unwrap().into_bytes()),
+        (format!("figures/{stem}-head.svg"), format!("<svg>{body}</svg>\n").into_bytes()),
     ];
     let mut entries = Vec::new();
     for (name, bytes) in &files {
         std::fs::write(dir.join(name), bytes).unwrap();
-        entries.push(FileEntry {
-            name: name.clone(),
-            sha256: sha256_hex(bytes),
-            bytes: bytes.len() as u64,
-        });
+        entries.push(FileEntry { name: name.clone(), sha256: sha256_hex(bytes), bytes: bytes.len() as u64 });
     }
     entries.sort_by(|a, b| a.name.cmp(&b.name));
     // The real digest is defined by the package compiler; a hash over the
     // file hashes stands in for it here, as the document-control code only
     // carries it.
-    let digest = sha256_hex(
-        entries
-            .iter()
-            .map(|e| e.sha256.as_str())
-            .collect::<Vec<_>>()
-            .join("\n")
-            .as_bytes(),
-    );
+    let digest = sha256_hex(entries.iter().map(|e| e.sha256.as_str()).collect::<Vec<_>>().join("\n").as_bytes());
     let m = Manifest {
         format: MANIFEST_FORMAT.into(),
-        tool: ToolId {
-            name: "knuckle".into(),
-            version: "test".into(),
-        },
+        tool: ToolId { name: "knuckle".into(), version: "test".into() },
         document: DocumentId {
             number: number.into(),
             revision: revision.into(),

@@ -46,10 +46,7 @@ pub fn thickness(
     );
     let t = match c.diameter {
         Diameter::Inside(_) => s.step(&f::CONE_T, "required thickness at the large end")?,
-        Diameter::Outside(_) => s.step(
-            &f::CONE_T_OUT,
-            "required thickness at the large end (outside diameter)",
-        )?,
+        Diameter::Outside(_) => s.step(&f::CONE_T_OUT, "required thickness at the large end (outside diameter)")?,
     };
     Ok(Some(t))
 }

@@ -20,152 +20,34 @@ use crate::units::Kind::*;
 macro_rules! formula {
     ($name:ident, $id:literal, $sym:literal, $clause:literal, $text:literal, $kind:expr) => {
         #[doc = concat!("`", $sym, " = ", $text, "` (", $clause, ")")]
-        pub const $name: Formula = Formula {
-            id: $id,
-            symbol: $sym,
-            clause: $clause,
-            text: $text,
-            result: $kind,
-        };
+        pub const $name: Formula = Formula { id: $id, symbol: $sym, clause: $clause, text: $text, result: $kind };
     };
 }
 
 // Loads.
-formula!(
-    STATIC_HEAD,
-    "static-head",
-    "P_s",
-    "UG-22",
-    "rho*g*h",
-    Pressure
-);
-formula!(
-    PRESSURE_AT_COMPONENT,
-    "pressure-at-component",
-    "P",
-    "UG-21, UG-22",
-    "P_d + P_s",
-    Pressure
-);
+formula!(STATIC_HEAD, "static-head", "P_s", "UG-22", "rho*g*h", Pressure);
+formula!(PRESSURE_AT_COMPONENT, "pressure-at-component", "P", "UG-21, UG-22", "P_d + P_s", Pressure);
 
 // Corroded dimensions (the corrosion allowance is removed from the inside).
-formula!(
-    CORRODED_DIAMETER,
-    "corroded-inside-diameter",
-    "D",
-    "UG-25",
-    "D_n + 2*c",
-    Length
-);
+formula!(CORRODED_DIAMETER, "corroded-inside-diameter", "D", "UG-25", "D_n + 2*c", Length);
 formula!(INSIDE_RADIUS, "inside-radius", "R", "UG-27", "D/2", Length);
-formula!(
-    OUTSIDE_RADIUS,
-    "outside-radius",
-    "R_o",
-    "Appendix 1, 1-1",
-    "D_o/2",
-    Length
-);
-formula!(
-    CORRODED_CROWN,
-    "corroded-crown-radius",
-    "L",
-    "UG-25",
-    "L_n + c",
-    Length
-);
-formula!(
-    CORRODED_KNUCKLE,
-    "corroded-knuckle-radius",
-    "r",
-    "UG-25",
-    "r_n + c",
-    Length
-);
+formula!(OUTSIDE_RADIUS, "outside-radius", "R_o", "Appendix 1, 1-1", "D_o/2", Length);
+formula!(CORRODED_CROWN, "corroded-crown-radius", "L", "UG-25", "L_n + c", Length);
+formula!(CORRODED_KNUCKLE, "corroded-knuckle-radius", "r", "UG-25", "r_n + c", Length);
 
 // Thickness allowances.
-formula!(
-    MINIMUM_THICKNESS,
-    "minimum-thickness",
-    "t_m",
-    "UG-16(b), UG-25, UG-81",
-    "max(t_r, t_f) + c + t_th",
-    Length
-);
-formula!(
-    AVAILABLE_THICKNESS,
-    "available-thickness",
-    "t",
-    "UG-25",
-    "t_n - c - t_th",
-    Length
-);
-formula!(
-    NEW_THICKNESS,
-    "new-thickness",
-    "t",
-    "UG-81",
-    "t_n - t_th",
-    Length
-);
+formula!(MINIMUM_THICKNESS, "minimum-thickness", "t_m", "UG-16(b), UG-25, UG-81", "max(t_r, t_f) + c + t_th", Length);
+formula!(AVAILABLE_THICKNESS, "available-thickness", "t", "UG-25", "t_n - c - t_th", Length);
+formula!(NEW_THICKNESS, "new-thickness", "t", "UG-81", "t_n - t_th", Length);
 
 // Cylinder, circumferential stress (longitudinal joints).
-formula!(
-    CYL_CIRC_LIMIT,
-    "cyl-circ-pressure-limit",
-    "P_lim",
-    "UG-27(c)(1)",
-    "0.385*S*E",
-    Pressure
-);
-formula!(
-    CYL_CIRC_T,
-    "ug27-c1-thickness",
-    "t_1",
-    "UG-27(c)(1)",
-    "P*R/(S*E - 0.6*P)",
-    Length
-);
-formula!(
-    CYL_CIRC_P,
-    "ug27-c1-mawp",
-    "P_1",
-    "UG-27(c)(1)",
-    "S*E*t/(R + 0.6*t)",
-    Pressure
-);
-formula!(
-    CYL_CIRC_T_OUT,
-    "app1-1-cyl-circ-thickness",
-    "t_1",
-    "Appendix 1, 1-1",
-    "P*R_o/(S*E + 0.4*P)",
-    Length
-);
-formula!(
-    CYL_CIRC_P_OUT,
-    "app1-1-cyl-circ-mawp",
-    "P_1",
-    "Appendix 1, 1-1",
-    "S*E*t/(R_o - 0.4*t)",
-    Pressure
-);
-formula!(
-    CYL_CIRC_Z_T,
-    "app1-2-cyl-circ-z-from-p",
-    "Z",
-    "Appendix 1, 1-2",
-    "(S*E + P)/(S*E - P)",
-    Dimensionless
-);
-formula!(
-    CYL_CIRC_THICK_T,
-    "app1-2-cyl-circ-thickness",
-    "t_1",
-    "Appendix 1, 1-2",
-    "R*(sqrt(Z) - 1)",
-    Length
-);
+formula!(CYL_CIRC_LIMIT, "cyl-circ-pressure-limit", "P_lim", "UG-27(c)(1)", "0.385*S*E", Pressure);
+formula!(CYL_CIRC_T, "ug27-c1-thickness", "t_1", "UG-27(c)(1)", "P*R/(S*E - 0.6*P)", Length);
+formula!(CYL_CIRC_P, "ug27-c1-mawp", "P_1", "UG-27(c)(1)", "S*E*t/(R + 0.6*t)", Pressure);
+formula!(CYL_CIRC_T_OUT, "app1-1-cyl-circ-thickness", "t_1", "Appendix 1, 1-1", "P*R_o/(S*E + 0.4*P)", Length);
+formula!(CYL_CIRC_P_OUT, "app1-1-cyl-circ-mawp", "P_1", "Appendix 1, 1-1", "S*E*t/(R_o - 0.4*t)", Pressure);
+formula!(CYL_CIRC_Z_T, "app1-2-cyl-circ-z-from-p", "Z", "Appendix 1, 1-2", "(S*E + P)/(S*E - P)", Dimensionless);
+formula!(CYL_CIRC_THICK_T, "app1-2-cyl-circ-thickness", "t_1", "Appendix 1, 1-2", "R*(sqrt(Z) - 1)", Length);
 formula!(
     CYL_CIRC_THICK_T_OUT,
     "app1-2-cyl-circ-thickness-outside",
@@ -174,88 +56,18 @@ formula!(
     "R_o*(sqrt(Z) - 1)/sqrt(Z)",
     Length
 );
-formula!(
-    CYL_Z_FROM_T,
-    "app1-2-cyl-z-from-t",
-    "Z",
-    "Appendix 1, 1-2",
-    "((R + t)/R)^2",
-    Dimensionless
-);
-formula!(
-    CYL_Z_FROM_T_OUT,
-    "app1-2-cyl-z-from-t-outside",
-    "Z",
-    "Appendix 1, 1-2",
-    "(R_o/(R_o - t))^2",
-    Dimensionless
-);
-formula!(
-    CYL_CIRC_THICK_P,
-    "app1-2-cyl-circ-mawp",
-    "P_1",
-    "Appendix 1, 1-2",
-    "S*E*(Z - 1)/(Z + 1)",
-    Pressure
-);
+formula!(CYL_Z_FROM_T, "app1-2-cyl-z-from-t", "Z", "Appendix 1, 1-2", "((R + t)/R)^2", Dimensionless);
+formula!(CYL_Z_FROM_T_OUT, "app1-2-cyl-z-from-t-outside", "Z", "Appendix 1, 1-2", "(R_o/(R_o - t))^2", Dimensionless);
+formula!(CYL_CIRC_THICK_P, "app1-2-cyl-circ-mawp", "P_1", "Appendix 1, 1-2", "S*E*(Z - 1)/(Z + 1)", Pressure);
 
 // Cylinder, longitudinal stress (circumferential joints).
-formula!(
-    CYL_LONG_LIMIT,
-    "cyl-long-pressure-limit",
-    "P_lim",
-    "UG-27(c)(2)",
-    "1.25*S*E_c",
-    Pressure
-);
-formula!(
-    CYL_LONG_T,
-    "ug27-c2-thickness",
-    "t_2",
-    "UG-27(c)(2)",
-    "P*R/(2*S*E_c + 0.4*P)",
-    Length
-);
-formula!(
-    CYL_LONG_P,
-    "ug27-c2-mawp",
-    "P_2",
-    "UG-27(c)(2)",
-    "2*S*E_c*t/(R - 0.4*t)",
-    Pressure
-);
-formula!(
-    CYL_LONG_T_OUT,
-    "app1-1-cyl-long-thickness",
-    "t_2",
-    "Appendix 1, 1-1",
-    "P*R_o/(2*S*E_c + 1.4*P)",
-    Length
-);
-formula!(
-    CYL_LONG_P_OUT,
-    "app1-1-cyl-long-mawp",
-    "P_2",
-    "Appendix 1, 1-1",
-    "2*S*E_c*t/(R_o - 1.4*t)",
-    Pressure
-);
-formula!(
-    CYL_LONG_Z_T,
-    "app1-2-cyl-long-z-from-p",
-    "Z",
-    "Appendix 1, 1-2",
-    "P/(S*E_c) + 1",
-    Dimensionless
-);
-formula!(
-    CYL_LONG_THICK_T,
-    "app1-2-cyl-long-thickness",
-    "t_2",
-    "Appendix 1, 1-2",
-    "R*(sqrt(Z) - 1)",
-    Length
-);
+formula!(CYL_LONG_LIMIT, "cyl-long-pressure-limit", "P_lim", "UG-27(c)(2)", "1.25*S*E_c", Pressure);
+formula!(CYL_LONG_T, "ug27-c2-thickness", "t_2", "UG-27(c)(2)", "P*R/(2*S*E_c + 0.4*P)", Length);
+formula!(CYL_LONG_P, "ug27-c2-mawp", "P_2", "UG-27(c)(2)", "2*S*E_c*t/(R - 0.4*t)", Pressure);
+formula!(CYL_LONG_T_OUT, "app1-1-cyl-long-thickness", "t_2", "Appendix 1, 1-1", "P*R_o/(2*S*E_c + 1.4*P)", Length);
+formula!(CYL_LONG_P_OUT, "app1-1-cyl-long-mawp", "P_2", "Appendix 1, 1-1", "2*S*E_c*t/(R_o - 1.4*t)", Pressure);
+formula!(CYL_LONG_Z_T, "app1-2-cyl-long-z-from-p", "Z", "Appendix 1, 1-2", "P/(S*E_c) + 1", Dimensionless);
+formula!(CYL_LONG_THICK_T, "app1-2-cyl-long-thickness", "t_2", "Appendix 1, 1-2", "R*(sqrt(Z) - 1)", Length);
 formula!(
     CYL_LONG_THICK_T_OUT,
     "app1-2-cyl-long-thickness-outside",
@@ -264,88 +76,18 @@ formula!(
     "R_o*(sqrt(Z) - 1)/sqrt(Z)",
     Length
 );
-formula!(
-    CYL_LONG_THICK_P,
-    "app1-2-cyl-long-mawp",
-    "P_2",
-    "Appendix 1, 1-2",
-    "S*E_c*(Z - 1)",
-    Pressure
-);
-formula!(
-    GOVERNING_T,
-    "governing-thickness",
-    "t_r",
-    "UG-27(c)",
-    "max(t_1, t_2)",
-    Length
-);
-formula!(
-    GOVERNING_P,
-    "governing-mawp",
-    "P_a",
-    "UG-27(c)",
-    "min(P_1, P_2)",
-    Pressure
-);
+formula!(CYL_LONG_THICK_P, "app1-2-cyl-long-mawp", "P_2", "Appendix 1, 1-2", "S*E_c*(Z - 1)", Pressure);
+formula!(GOVERNING_T, "governing-thickness", "t_r", "UG-27(c)", "max(t_1, t_2)", Length);
+formula!(GOVERNING_P, "governing-mawp", "P_a", "UG-27(c)", "min(P_1, P_2)", Pressure);
 
 // Sphere and hemispherical head.
-formula!(
-    SPH_LIMIT,
-    "sph-pressure-limit",
-    "P_lim",
-    "UG-27(d)",
-    "0.665*S*E",
-    Pressure
-);
-formula!(
-    SPH_T,
-    "ug27-d-thickness",
-    "t_r",
-    "UG-27(d), UG-32",
-    "P*R/(2*S*E - 0.2*P)",
-    Length
-);
-formula!(
-    SPH_P,
-    "ug27-d-mawp",
-    "P_a",
-    "UG-27(d), UG-32",
-    "2*S*E*t/(R + 0.2*t)",
-    Pressure
-);
-formula!(
-    SPH_T_OUT,
-    "app1-1-sph-thickness",
-    "t_r",
-    "Appendix 1, 1-1",
-    "P*R_o/(2*S*E + 0.8*P)",
-    Length
-);
-formula!(
-    SPH_P_OUT,
-    "app1-1-sph-mawp",
-    "P_a",
-    "Appendix 1, 1-1",
-    "2*S*E*t/(R_o - 0.8*t)",
-    Pressure
-);
-formula!(
-    SPH_Y_T,
-    "app1-2-sph-y-from-p",
-    "Y",
-    "Appendix 1, 1-2",
-    "2*(S*E + P)/(2*S*E - P)",
-    Dimensionless
-);
-formula!(
-    SPH_THICK_T,
-    "app1-2-sph-thickness",
-    "t_r",
-    "Appendix 1, 1-2",
-    "R*(cbrt(Y) - 1)",
-    Length
-);
+formula!(SPH_LIMIT, "sph-pressure-limit", "P_lim", "UG-27(d)", "0.665*S*E", Pressure);
+formula!(SPH_T, "ug27-d-thickness", "t_r", "UG-27(d), UG-32", "P*R/(2*S*E - 0.2*P)", Length);
+formula!(SPH_P, "ug27-d-mawp", "P_a", "UG-27(d), UG-32", "2*S*E*t/(R + 0.2*t)", Pressure);
+formula!(SPH_T_OUT, "app1-1-sph-thickness", "t_r", "Appendix 1, 1-1", "P*R_o/(2*S*E + 0.8*P)", Length);
+formula!(SPH_P_OUT, "app1-1-sph-mawp", "P_a", "Appendix 1, 1-1", "2*S*E*t/(R_o - 0.8*t)", Pressure);
+formula!(SPH_Y_T, "app1-2-sph-y-from-p", "Y", "Appendix 1, 1-2", "2*(S*E + P)/(2*S*E - P)", Dimensionless);
+formula!(SPH_THICK_T, "app1-2-sph-thickness", "t_r", "Appendix 1, 1-2", "R*(cbrt(Y) - 1)", Length);
 formula!(
     SPH_THICK_T_OUT,
     "app1-2-sph-thickness-outside",
@@ -354,56 +96,14 @@ formula!(
     "R_o*(cbrt(Y) - 1)/cbrt(Y)",
     Length
 );
-formula!(
-    SPH_Y_FROM_T,
-    "app1-2-sph-y-from-t",
-    "Y",
-    "Appendix 1, 1-2",
-    "((R + t)/R)^3",
-    Dimensionless
-);
-formula!(
-    SPH_Y_FROM_T_OUT,
-    "app1-2-sph-y-from-t-outside",
-    "Y",
-    "Appendix 1, 1-2",
-    "(R_o/(R_o - t))^3",
-    Dimensionless
-);
-formula!(
-    SPH_THICK_P,
-    "app1-2-sph-mawp",
-    "P_a",
-    "Appendix 1, 1-2",
-    "2*S*E*(Y - 1)/(Y + 2)",
-    Pressure
-);
+formula!(SPH_Y_FROM_T, "app1-2-sph-y-from-t", "Y", "Appendix 1, 1-2", "((R + t)/R)^3", Dimensionless);
+formula!(SPH_Y_FROM_T_OUT, "app1-2-sph-y-from-t-outside", "Y", "Appendix 1, 1-2", "(R_o/(R_o - t))^3", Dimensionless);
+formula!(SPH_THICK_P, "app1-2-sph-mawp", "P_a", "Appendix 1, 1-2", "2*S*E*(Y - 1)/(Y + 2)", Pressure);
 
 // Ellipsoidal head.
-formula!(
-    ELL_K,
-    "app1-4-c-k",
-    "K",
-    "Appendix 1, 1-4(c)",
-    "(2 + a^2)/6",
-    Dimensionless
-);
-formula!(
-    ELL_T,
-    "app1-4-c-thickness",
-    "t_r",
-    "UG-32, Appendix 1, 1-4(c)",
-    "P*D*K/(2*S*E - 0.2*P)",
-    Length
-);
-formula!(
-    ELL_P,
-    "app1-4-c-mawp",
-    "P_a",
-    "UG-32, Appendix 1, 1-4(c)",
-    "2*S*E*t/(K*D + 0.2*t)",
-    Pressure
-);
+formula!(ELL_K, "app1-4-c-k", "K", "Appendix 1, 1-4(c)", "(2 + a^2)/6", Dimensionless);
+formula!(ELL_T, "app1-4-c-thickness", "t_r", "UG-32, Appendix 1, 1-4(c)", "P*D*K/(2*S*E - 0.2*P)", Length);
+formula!(ELL_P, "app1-4-c-mawp", "P_a", "UG-32, Appendix 1, 1-4(c)", "2*S*E*t/(K*D + 0.2*t)", Pressure);
 formula!(
     ELL_T_OUT,
     "app1-4-c-thickness-outside",
@@ -412,122 +112,24 @@ formula!(
     "P*D_o*K/(2*S*E + 2*P*(K - 0.1))",
     Length
 );
-formula!(
-    ELL_P_OUT,
-    "app1-4-c-mawp-outside",
-    "P_a",
-    "Appendix 1, 1-4(c)",
-    "2*S*E*t/(K*D_o - 2*t*(K - 0.1))",
-    Pressure
-);
-formula!(
-    ELL_EQUIV_CROWN,
-    "ellipsoid-equivalent-crown",
-    "L_e",
-    "UG-32, Table UG-33.1",
-    "K_1*D",
-    Length
-);
-formula!(
-    INSIDE_FROM_OUTSIDE,
-    "inside-from-outside-diameter",
-    "D",
-    "Appendix 1, 1-1",
-    "D_o - 2*t",
-    Length
-);
-formula!(
-    THIN_HEAD_RATIO,
-    "head-thickness-ratio",
-    "t_L",
-    "Appendix 1, 1-4(f)",
-    "t/L_e",
-    Dimensionless
-);
+formula!(ELL_P_OUT, "app1-4-c-mawp-outside", "P_a", "Appendix 1, 1-4(c)", "2*S*E*t/(K*D_o - 2*t*(K - 0.1))", Pressure);
+formula!(ELL_EQUIV_CROWN, "ellipsoid-equivalent-crown", "L_e", "UG-32, Table UG-33.1", "K_1*D", Length);
+formula!(INSIDE_FROM_OUTSIDE, "inside-from-outside-diameter", "D", "Appendix 1, 1-1", "D_o - 2*t", Length);
+formula!(THIN_HEAD_RATIO, "head-thickness-ratio", "t_L", "Appendix 1, 1-4(f)", "t/L_e", Dimensionless);
 
 // Torispherical head.
-formula!(
-    TORI_M,
-    "app1-4-d-m",
-    "M",
-    "Appendix 1, 1-4(d)",
-    "(3 + sqrt(L/r))/4",
-    Dimensionless
-);
-formula!(
-    TORI_T,
-    "app1-4-d-thickness",
-    "t_r",
-    "Appendix 1, 1-4(d)",
-    "P*L*M/(2*S*E - 0.2*P)",
-    Length
-);
-formula!(
-    TORI_P,
-    "app1-4-d-mawp",
-    "P_a",
-    "Appendix 1, 1-4(d)",
-    "2*S*E*t/(L*M + 0.2*t)",
-    Pressure
-);
-formula!(
-    TORI6_T,
-    "ug32-6pct-thickness",
-    "t_r",
-    "UG-32 (6 % knuckle head)",
-    "0.885*P*L/(S*E - 0.1*P)",
-    Length
-);
-formula!(
-    TORI6_P,
-    "ug32-6pct-mawp",
-    "P_a",
-    "UG-32 (6 % knuckle head)",
-    "S*E*t/(0.885*L + 0.1*t)",
-    Pressure
-);
-formula!(
-    SKIRT_OD,
-    "skirt-outside-diameter",
-    "D_s",
-    "UG-32",
-    "D_n + 2*t_n",
-    Length
-);
-formula!(
-    KNUCKLE_MIN_SKIRT,
-    "knuckle-min-skirt",
-    "r_min1",
-    "UG-32",
-    "0.06*D_s",
-    Length
-);
-formula!(
-    KNUCKLE_MIN_T,
-    "knuckle-min-thickness",
-    "r_min2",
-    "UG-32",
-    "3*t_n",
-    Length
-);
-formula!(
-    TORI_RATIO,
-    "tori-thickness-ratio",
-    "t_L",
-    "Appendix 1, 1-4(f)",
-    "t/L",
-    Dimensionless
-);
+formula!(TORI_M, "app1-4-d-m", "M", "Appendix 1, 1-4(d)", "(3 + sqrt(L/r))/4", Dimensionless);
+formula!(TORI_T, "app1-4-d-thickness", "t_r", "Appendix 1, 1-4(d)", "P*L*M/(2*S*E - 0.2*P)", Length);
+formula!(TORI_P, "app1-4-d-mawp", "P_a", "Appendix 1, 1-4(d)", "2*S*E*t/(L*M + 0.2*t)", Pressure);
+formula!(TORI6_T, "ug32-6pct-thickness", "t_r", "UG-32 (6 % knuckle head)", "0.885*P*L/(S*E - 0.1*P)", Length);
+formula!(TORI6_P, "ug32-6pct-mawp", "P_a", "UG-32 (6 % knuckle head)", "S*E*t/(0.885*L + 0.1*t)", Pressure);
+formula!(SKIRT_OD, "skirt-outside-diameter", "D_s", "UG-32", "D_n + 2*t_n", Length);
+formula!(KNUCKLE_MIN_SKIRT, "knuckle-min-skirt", "r_min1", "UG-32", "0.06*D_s", Length);
+formula!(KNUCKLE_MIN_T, "knuckle-min-thickness", "r_min2", "UG-32", "3*t_n", Length);
+formula!(TORI_RATIO, "tori-thickness-ratio", "t_L", "Appendix 1, 1-4(f)", "t/L", Dimensionless);
 
 // Conical section.
-formula!(
-    CONE_T,
-    "cone-thickness",
-    "t_r",
-    "UG-32, Appendix 1, 1-4(e)",
-    "P*D/(2*cos(alpha)*(S*E - 0.6*P))",
-    Length
-);
+formula!(CONE_T, "cone-thickness", "t_r", "UG-32, Appendix 1, 1-4(e)", "P*D/(2*cos(alpha)*(S*E - 0.6*P))", Length);
 formula!(
     CONE_P,
     "cone-mawp",
@@ -554,38 +156,10 @@ formula!(
 );
 
 // MAWP referred to the top, vessel and tests.
-formula!(
-    MAWP_TOP,
-    "mawp-at-top",
-    "P_top",
-    "UG-98",
-    "P_a - P_s",
-    Pressure
-);
-formula!(
-    STRESS_RATIO,
-    "test-stress-ratio",
-    "LSR",
-    "UG-99(b)",
-    "S_t/S",
-    Dimensionless
-);
-formula!(
-    HYDROTEST,
-    "hydrostatic-test",
-    "P_h",
-    "UG-99(b)",
-    "1.3*P_v*LSR",
-    Pressure
-);
-formula!(
-    PNEUMATIC,
-    "pneumatic-test",
-    "P_pn",
-    "UG-100",
-    "1.1*P_v*LSR",
-    Pressure
-);
+formula!(MAWP_TOP, "mawp-at-top", "P_top", "UG-98", "P_a - P_s", Pressure);
+formula!(STRESS_RATIO, "test-stress-ratio", "LSR", "UG-99(b)", "S_t/S", Dimensionless);
+formula!(HYDROTEST, "hydrostatic-test", "P_h", "UG-99(b)", "1.3*P_v*LSR", Pressure);
+formula!(PNEUMATIC, "pneumatic-test", "P_pn", "UG-100", "1.1*P_v*LSR", Pressure);
 
 /// Every formula above, for tests and the documentation.
 pub static ALL: &[&Formula] = &[
@@ -668,8 +242,8 @@ pub fn symbol_kind(symbol: &str) -> Option<crate::units::Kind> {
         "E" | "E_c" | "Z" | "Y" | "a" | "K" | "M" | "K_1" | "LSR" | "t_L" => Dimensionless,
         "rho" => Density,
         "g" => Acceleration,
-        "h" | "c" | "t_th" | "t_f" | "t_r" | "t_m" | "t_n" | "t" | "t_1" | "t_2" | "D" | "D_n"
-        | "D_o" | "R" | "R_o" | "L" | "L_n" | "L_e" | "r" | "r_n" | "D_s" => Length,
+        "h" | "c" | "t_th" | "t_f" | "t_r" | "t_m" | "t_n" | "t" | "t_1" | "t_2" | "D" | "D_n" | "D_o" | "R"
+        | "R_o" | "L" | "L_n" | "L_e" | "r" | "r_n" | "D_s" => Length,
         "alpha" => Angle,
         _ => return None,
     })
@@ -687,8 +261,7 @@ mod tests {
             let e = f.expr().unwrap_or_else(|e| panic!("{}: {e}", f.id));
             let mut env = Env::new();
             for s in e.symbols() {
-                let kind =
-                    symbol_kind(&s).unwrap_or_else(|| panic!("{}: symbol `{s}` has no kind", f.id));
+                let kind = symbol_kind(&s).unwrap_or_else(|| panic!("{}: symbol `{s}` has no kind", f.id));
                 // Values of a plausible size so that no root or division fails.
                 let v = match kind {
                     Angle => 0.3,

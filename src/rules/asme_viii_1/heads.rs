@@ -50,11 +50,7 @@ pub fn ellipsoidal_thickness(
     aspect_ratio: f64,
     _condition: Condition,
 ) -> Result<Quantity, CalcError> {
-    s.input(
-        "a",
-        "ratio of major to minor axis, D/2h",
-        Quantity::new(aspect_ratio, Kind::Dimensionless),
-    );
+    s.input("a", "ratio of major to minor axis, D/2h", Quantity::new(aspect_ratio, Kind::Dimensionless));
     s.step(&f::ELL_K, "stress factor K")?;
     match c.diameter {
         Diameter::Inside(_) => s.step(&f::ELL_T, "required thickness"),
@@ -63,11 +59,7 @@ pub fn ellipsoidal_thickness(
 }
 
 /// MAWP of an ellipsoidal head for the bound thickness `t`.
-pub fn ellipsoidal_mawp(
-    s: &mut Sheet,
-    c: &Component,
-    condition: Condition,
-) -> Result<Quantity, CalcError> {
+pub fn ellipsoidal_mawp(s: &mut Sheet, c: &Component, condition: Condition) -> Result<Quantity, CalcError> {
     let words = format!("MAWP, {}", condition.words());
     match c.diameter {
         Diameter::Inside(_) => s.step(&f::ELL_P, &words),
@@ -75,22 +67,11 @@ pub fn ellipsoidal_mawp(
     }
 }
 
-fn bind_radii(
-    s: &mut Sheet,
-    crown: Quantity,
-    knuckle: Quantity,
-    condition: Condition,
-) -> Result<(), CalcError> {
+fn bind_radii(s: &mut Sheet, crown: Quantity, knuckle: Quantity, condition: Condition) -> Result<(), CalcError> {
     s.input("L_n", "inside crown radius, new", crown);
     s.input("r_n", "inside knuckle radius, new", knuckle);
-    s.step(
-        &f::CORRODED_CROWN,
-        &format!("inside crown radius, {}", condition.words()),
-    )?;
-    s.step(
-        &f::CORRODED_KNUCKLE,
-        &format!("inside knuckle radius, {}", condition.words()),
-    )?;
+    s.step(&f::CORRODED_CROWN, &format!("inside crown radius, {}", condition.words()))?;
+    s.step(&f::CORRODED_KNUCKLE, &format!("inside knuckle radius, {}", condition.words()))?;
     Ok(())
 }
 
@@ -103,10 +84,7 @@ pub fn torispherical_thickness(
 ) -> Result<Quantity, CalcError> {
     bind_radii(s, crown, knuckle, condition)?;
     if is_six_percent(crown, knuckle) {
-        s.step(
-            &f::TORI6_T,
-            "required thickness (knuckle radius 6 % of the crown radius)",
-        )
+        s.step(&f::TORI6_T, "required thickness (knuckle radius 6 % of the crown radius)")
     } else {
         s.step(&f::TORI_M, "stress factor M")?;
         s.step(&f::TORI_T, "required thickness")
@@ -140,11 +118,7 @@ pub fn shape_limits(s: &mut Sheet, c: &Component, nominal: Quantity) -> Result<(
     let fail_note = "Appendix 1, 1-4(f) applies to heads this thin; Knuckle does not evaluate it, so the head is not \
                      demonstrated by this package";
     match &c.kind {
-        ComponentKind::TorisphericalHead {
-            crown_radius,
-            knuckle_radius,
-            ..
-        } => {
+        ComponentKind::TorisphericalHead { crown_radius, knuckle_radius, .. } => {
             let skirt = match c.diameter {
                 Diameter::Inside(_) => s.step(&f::SKIRT_OD, "outside diameter of the skirt")?,
                 Diameter::Outside(d) => s.input("D_s", "outside diameter of the skirt", d),
@@ -157,10 +131,7 @@ pub fn shape_limits(s: &mut Sheet, c: &Component, nominal: Quantity) -> Result<(
                 "UG-32 limits the inside crown radius to the outside diameter of the skirt",
                 true,
             );
-            let r1 = s.step(
-                &f::KNUCKLE_MIN_SKIRT,
-                "least knuckle radius: 6 % of the skirt outside diameter",
-            )?;
+            let r1 = s.step(&f::KNUCKLE_MIN_SKIRT, "least knuckle radius: 6 % of the skirt outside diameter")?;
             s.check_at_least_limit(
                 "knuckle radius at least 6 % of the skirt outside diameter",
                 "UG-32",
@@ -168,10 +139,7 @@ pub fn shape_limits(s: &mut Sheet, c: &Component, nominal: Quantity) -> Result<(
                 *knuckle_radius,
                 "UG-32 requires the knuckle radius to be at least 6 % of the skirt outside diameter",
             );
-            let r2 = s.step(
-                &f::KNUCKLE_MIN_T,
-                "least knuckle radius: three times the head thickness",
-            )?;
+            let r2 = s.step(&f::KNUCKLE_MIN_T, "least knuckle radius: three times the head thickness")?;
             s.check_at_least_limit(
                 "knuckle radius at least three times the head thickness",
                 "UG-32",
@@ -180,10 +148,7 @@ pub fn shape_limits(s: &mut Sheet, c: &Component, nominal: Quantity) -> Result<(
                 "UG-32 requires the knuckle radius to be at least three times the head thickness",
             );
             let _ = nominal;
-            let ratio = s.step(
-                &f::TORI_RATIO,
-                "thickness to crown radius ratio, hot and corroded",
-            )?;
+            let ratio = s.step(&f::TORI_RATIO, "thickness to crown radius ratio, hot and corroded")?;
             s.check_at_least_limit(
                 "t/L at least 0.002",
                 "Appendix 1, 1-4(f)",
@@ -201,14 +166,8 @@ pub fn shape_limits(s: &mut Sheet, c: &Component, nominal: Quantity) -> Result<(
             if let Diameter::Outside(_) = c.diameter {
                 s.step(&f::INSIDE_FROM_OUTSIDE, "inside diameter, hot and corroded")?;
             }
-            s.step(
-                &f::ELL_EQUIV_CROWN,
-                "equivalent crown radius of the ellipsoidal head",
-            )?;
-            let ratio = s.step(
-                &f::THIN_HEAD_RATIO,
-                "thickness to equivalent crown radius ratio, hot and corroded",
-            )?;
+            s.step(&f::ELL_EQUIV_CROWN, "equivalent crown radius of the ellipsoidal head")?;
+            let ratio = s.step(&f::THIN_HEAD_RATIO, "thickness to equivalent crown radius ratio, hot and corroded")?;
             s.check_at_least_limit(
                 "t/L at least 0.002",
                 "UG-32, Appendix 1, 1-4(f)",

@@ -38,11 +38,8 @@ impl RuleSet for AsmeViii1 {
         f::ALL
     }
     fn evaluate(&self, design: &Design) -> Result<Calculation, CalcError> {
-        let components = design
-            .components
-            .iter()
-            .map(|c| evaluate_component(design, c))
-            .collect::<Result<Vec<_>, _>>()?;
+        let components =
+            design.components.iter().map(|c| evaluate_component(design, c)).collect::<Result<Vec<_>, _>>()?;
         let vessel = vessel::evaluate(design, &components)?;
         Ok(Calculation {
             rule_set: self.id().to_string(),
@@ -92,14 +89,8 @@ pub fn bind_diameter(s: &mut Sheet, c: &Component, condition: Condition) -> Resu
     match c.diameter {
         Diameter::Inside(d) => {
             s.input("D_n", "inside diameter, as given", d);
-            s.step(
-                &f::CORRODED_DIAMETER,
-                &format!("inside diameter, {}", condition.words()),
-            )?;
-            s.step(
-                &f::INSIDE_RADIUS,
-                &format!("inside radius, {}", condition.words()),
-            )?;
+            s.step(&f::CORRODED_DIAMETER, &format!("inside diameter, {}", condition.words()))?;
+            s.step(&f::INSIDE_RADIUS, &format!("inside radius, {}", condition.words()))?;
         }
         Diameter::Outside(d) => {
             // The outside does not corrode: the allowance is taken off the thickness.
@@ -121,51 +112,21 @@ pub fn evaluate_component(design: &Design, c: &Component) -> Result<ComponentRes
     let mut limits = Vec::new();
 
     // Loads.
-    s.input(
-        "P_d",
-        "design pressure at the vessel top",
-        design.conditions.pressure,
-    );
+    s.input("P_d", "design pressure at the vessel top", design.conditions.pressure);
     let static_head = match (design.conditions.liquid_density, c.liquid_head.value > 0.0) {
         (Some(rho), true) => {
             s.input("rho", "liquid density", rho);
-            s.input(
-                "g",
-                "standard gravity",
-                Quantity::new(STANDARD_GRAVITY, Kind::Acceleration),
-            );
-            s.input(
-                "h",
-                "liquid head at the component's lowest point",
-                c.liquid_head,
-            );
+            s.input("g", "standard gravity", Quantity::new(STANDARD_GRAVITY, Kind::Acceleration));
+            s.input("h", "liquid head at the component's lowest point", c.liquid_head);
             s.step(&f::STATIC_HEAD, "static head of the liquid")?
         }
-        _ => s.input(
-            "P_s",
-            "static head (no liquid head given)",
-            Quantity::new(0.0, Kind::Pressure),
-        ),
+        _ => s.input("P_s", "static head (no liquid head given)", Quantity::new(0.0, Kind::Pressure)),
     };
-    let p = s.step(
-        &f::PRESSURE_AT_COMPONENT,
-        "design pressure at the component",
-    )?;
+    let p = s.step(&f::PRESSURE_AT_COMPONENT, "design pressure at the component")?;
 
     // Material, joint and allowances.
-    s.input(
-        "S",
-        &format!(
-            "allowable stress of {} at design temperature",
-            material.name
-        ),
-        material.allowable_stress,
-    );
-    s.input(
-        "E",
-        "joint efficiency",
-        Quantity::new(c.joint_efficiency, Kind::Dimensionless),
-    );
+    s.input("S", &format!("allowable stress of {} at design temperature", material.name), material.allowable_stress);
+    s.input("E", "joint efficiency", Quantity::new(c.joint_efficiency, Kind::Dimensionless));
     if matches!(c.kind, ComponentKind::Cylinder) {
         s.input(
             "E_c",
@@ -180,55 +141,28 @@ pub fn evaluate_component(design: &Design, c: &Component) -> Result<ComponentRes
         "thinning allowance (none: not a formed head)"
     };
     s.input("t_th", thinning_words, c.thinning_allowance);
-    s.input(
-        "t_f",
-        "minimum thickness exclusive of corrosion allowance",
-        ug16_floor(u),
-    );
+    s.input("t_f", "minimum thickness exclusive of corrosion allowance", ug16_floor(u));
 
     // Corroded geometry and required thickness.
     bind_diameter(&mut s, c, Condition::HotCorroded)?;
     let required = match &c.kind {
         ComponentKind::Cylinder => Some(shells::cylinder_thickness(&mut s, c)?),
-        ComponentKind::Sphere | ComponentKind::HemisphericalHead => {
-            Some(shells::sphere_thickness(&mut s, c)?)
+        ComponentKind::Sphere | ComponentKind::HemisphericalHead => Some(shells::sphere_thickness(&mut s, c)?),
+        ComponentKind::EllipsoidalHead { aspect_ratio } => {
+            Some(heads::ellipsoidal_thickness(&mut s, c, *aspect_ratio, Condition::HotCorroded)?)
         }
-        ComponentKind::EllipsoidalHead { aspect_ratio } => Some(heads::ellipsoidal_thickness(
-            &mut s,
-            c,
-            *aspect_ratio,
-            Condition::HotCorroded,
-        )?),
-        ComponentKind::TorisphericalHead {
-            crown_radius,
-            knuckle_radius,
-            ..
-        } => Some(heads::torispherical_thickness(
-            &mut s,
-            *crown_radius,
-            *knuckle_radius,
-            Condition::HotCorroded,
-        )?),
-        ComponentKind::ConicalSection {
-            half_apex_angle, ..
-        } => cone::thickness(&mut s, c, *half_apex_angle, &mut limits)?,
+        ComponentKind::TorisphericalHead { crown_radius, knuckle_radius, .. } => {
+            Some(heads::torispherical_thickness(&mut s, *crown_radius, *knuckle_radius, Condition::HotCorroded)?)
+        }
+        ComponentKind::ConicalSection { half_apex_angle, .. } => {
+            cone::thickness(&mut s, c, *half_apex_angle, &mut limits)?
+        }
     };
     let Some(required) = required else {
         // The rules do not apply (for example a cone steeper than 30°): no
         // thickness or pressure is reported, and the failed applicability
         // check already on the sheet says which rules are needed.
-        return Ok(finish(
-            c,
-            s,
-            None,
-            None,
-            p,
-            static_head,
-            None,
-            None,
-            None,
-            limits,
-        ));
+        return Ok(finish(c, s, None, None, p, static_head, None, None, None, limits));
     };
     if required.value <= 0.0 {
         return Err(CalcError::OutOfRange {
@@ -237,7 +171,10 @@ pub fn evaluate_component(design: &Design, c: &Component) -> Result<ComponentRes
         });
     }
     s.bind("t_r", required);
-    let minimum = s.step(&f::MINIMUM_THICKNESS, "minimum thickness: the larger of the pressure thickness and the floor, plus corrosion and thinning allowances")?;
+    let minimum = s.step(
+        &f::MINIMUM_THICKNESS,
+        "minimum thickness: the larger of the pressure thickness and the floor, plus corrosion and thinning allowances",
+    )?;
 
     // Nominal thickness and its adequacy.
     let nominal = match c.nominal_thickness {
@@ -252,18 +189,11 @@ pub fn evaluate_component(design: &Design, c: &Component) -> Result<ComponentRes
             );
             t
         }
-        None => s.input(
-            "t_n",
-            "no nominal thickness given: the minimum thickness is used",
-            minimum,
-        ),
+        None => s.input("t_n", "no nominal thickness given: the minimum thickness is used", minimum),
     };
 
     // MAWP hot and corroded, after the shape limits that use the same thickness.
-    s.step(
-        &f::AVAILABLE_THICKNESS,
-        "thickness available, hot and corroded",
-    )?;
+    s.step(&f::AVAILABLE_THICKNESS, "thickness available, hot and corroded")?;
     heads::shape_limits(&mut s, c, nominal)?;
     let mawp = component_mawp(&mut s, c, Condition::HotCorroded)?;
     s.check_at_least(
@@ -277,46 +207,23 @@ pub fn evaluate_component(design: &Design, c: &Component) -> Result<ComponentRes
 
     // MAP new and cold: no corrosion allowance, allowable stress at test temperature.
     s.input("c", "corrosion allowance, new condition", len(0.0));
-    s.input(
-        "S",
-        &format!("allowable stress of {} at test temperature", material.name),
-        material.test_allowable_stress,
-    );
+    s.input("S", &format!("allowable stress of {} at test temperature", material.name), material.test_allowable_stress);
     bind_diameter(&mut s, c, Condition::NewCold)?;
     s.step(&f::NEW_THICKNESS, "thickness available, new and cold")?;
     let map = component_mawp(&mut s, c, Condition::NewCold)?;
 
-    Ok(finish(
-        c,
-        s,
-        Some(required),
-        Some(minimum),
-        p,
-        static_head,
-        Some(mawp),
-        Some(top),
-        Some(map),
-        limits,
-    ))
+    Ok(finish(c, s, Some(required), Some(minimum), p, static_head, Some(mawp), Some(top), Some(map), limits))
 }
 
 /// The MAWP of a component for the thickness bound to `t`.
-fn component_mawp(
-    s: &mut Sheet,
-    c: &Component,
-    condition: Condition,
-) -> Result<Quantity, CalcError> {
+fn component_mawp(s: &mut Sheet, c: &Component, condition: Condition) -> Result<Quantity, CalcError> {
     let q = match &c.kind {
         ComponentKind::Cylinder => shells::cylinder_mawp(s, c, condition)?,
-        ComponentKind::Sphere | ComponentKind::HemisphericalHead => {
-            shells::sphere_mawp(s, c, condition)?
-        }
+        ComponentKind::Sphere | ComponentKind::HemisphericalHead => shells::sphere_mawp(s, c, condition)?,
         ComponentKind::EllipsoidalHead { .. } => heads::ellipsoidal_mawp(s, c, condition)?,
-        ComponentKind::TorisphericalHead {
-            crown_radius,
-            knuckle_radius,
-            ..
-        } => heads::torispherical_mawp(s, *crown_radius, *knuckle_radius, condition)?,
+        ComponentKind::TorisphericalHead { crown_radius, knuckle_radius, .. } => {
+            heads::torispherical_mawp(s, *crown_radius, *knuckle_radius, condition)?
+        }
         ComponentKind::ConicalSection { .. } => cone::mawp(s, c, condition)?,
     };
     if !(q.value > 0.0) {
@@ -370,21 +277,15 @@ pub fn describe(c: &Component) -> String {
         ComponentKind::Cylinder => "cylindrical shell".to_string(),
         ComponentKind::Sphere => "spherical shell".to_string(),
         ComponentKind::HemisphericalHead => "hemispherical head".to_string(),
-        ComponentKind::EllipsoidalHead { aspect_ratio } => format!(
-            "ellipsoidal head, D/2h = {}",
-            crate::expr::show_number(*aspect_ratio)
-        ),
-        ComponentKind::TorisphericalHead {
-            shape: Some(shape), ..
-        } => format!("torispherical head, {} shape", shape.name()),
+        ComponentKind::EllipsoidalHead { aspect_ratio } => {
+            format!("ellipsoidal head, D/2h = {}", crate::expr::show_number(*aspect_ratio))
+        }
+        ComponentKind::TorisphericalHead { shape: Some(shape), .. } => {
+            format!("torispherical head, {} shape", shape.name())
+        }
         ComponentKind::TorisphericalHead { .. } => "torispherical head".to_string(),
-        ComponentKind::ConicalSection {
-            half_apex_angle, ..
-        } => {
-            format!(
-                "conical section, half-apex angle {}",
-                UnitSystem::Si.display(*half_apex_angle)
-            )
+        ComponentKind::ConicalSection { half_apex_angle, .. } => {
+            format!("conical section, half-apex angle {}", UnitSystem::Si.display(*half_apex_angle))
         }
     }
 }

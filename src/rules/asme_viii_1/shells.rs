@@ -18,19 +18,12 @@ fn outside(c: &Component) -> bool {
 }
 
 fn get(s: &Sheet, sym: &str) -> Result<Quantity, CalcError> {
-    s.get(sym).ok_or(CalcError::Formula {
-        id: "sheet",
-        message: format!("symbol `{sym}` is not bound"),
-    })
+    s.get(sym).ok_or(CalcError::Formula { id: "sheet", message: format!("symbol `{sym}` is not bound") })
 }
 
 /// Inside radius implied by the bound radius and a thickness.
 fn inside_radius(s: &Sheet, c: &Component, t: f64) -> Result<f64, CalcError> {
-    Ok(if outside(c) {
-        get(s, "R_o")?.value - t
-    } else {
-        get(s, "R")?.value
-    })
+    Ok(if outside(c) { get(s, "R_o")?.value - t } else { get(s, "R")?.value })
 }
 
 /// One thin/thick pair of thickness formulas for one stress direction.
@@ -60,32 +53,17 @@ struct PressureForms {
 
 fn thickness(s: &mut Sheet, c: &Component, forms: &ThicknessForms) -> Result<Quantity, CalcError> {
     let p = get(s, "P")?;
-    let limit = s.step(
-        forms.limit,
-        &format!("pressure limit of the thin-wall formula, {}", forms.words),
-    )?;
-    let thin = if outside(c) {
-        forms.thin_out
-    } else {
-        forms.thin
-    };
-    let t = s.step(
-        thin,
-        &format!("required thickness, {} (thin-wall formula)", forms.words),
-    )?;
+    let limit = s.step(forms.limit, &format!("pressure limit of the thin-wall formula, {}", forms.words))?;
+    let thin = if outside(c) { forms.thin_out } else { forms.thin };
+    let t = s.step(thin, &format!("required thickness, {} (thin-wall formula)", forms.words))?;
     let r_in = inside_radius(s, c, t.value)?;
-    let thin_valid =
-        p.value <= limit.value && t.value <= forms.radius_ratio * r_in && t.value > 0.0;
+    let thin_valid = p.value <= limit.value && t.value <= forms.radius_ratio * r_in && t.value > 0.0;
     if thin_valid {
         return Ok(t);
     }
     // Outside the thin-wall limits the exact elastic (Lamé) forms of 1-2 apply.
     s.step(forms.z, "thick-wall factor")?;
-    let thick = if outside(c) {
-        forms.thick_out
-    } else {
-        forms.thick
-    };
+    let thick = if outside(c) { forms.thick_out } else { forms.thick };
     let why = format!(
         "required thickness, {} (thick-wall formula: P > P_lim or t > {}·R with the thin-wall formula)",
         forms.words, forms.radius_ratio
@@ -93,30 +71,11 @@ fn thickness(s: &mut Sheet, c: &Component, forms: &ThicknessForms) -> Result<Qua
     s.step(thick, &why)
 }
 
-fn pressure(
-    s: &mut Sheet,
-    c: &Component,
-    forms: &PressureForms,
-    condition: Condition,
-) -> Result<Quantity, CalcError> {
+fn pressure(s: &mut Sheet, c: &Component, forms: &PressureForms, condition: Condition) -> Result<Quantity, CalcError> {
     let t = get(s, "t")?;
-    let limit = s.step(
-        forms.limit,
-        &format!("pressure limit of the thin-wall formula, {}", forms.words),
-    )?;
-    let thin = if outside(c) {
-        forms.thin_out
-    } else {
-        forms.thin
-    };
-    let p = s.step(
-        thin,
-        &format!(
-            "MAWP, {}, {} (thin-wall formula)",
-            forms.words,
-            condition.words()
-        ),
-    )?;
+    let limit = s.step(forms.limit, &format!("pressure limit of the thin-wall formula, {}", forms.words))?;
+    let thin = if outside(c) { forms.thin_out } else { forms.thin };
+    let p = s.step(thin, &format!("MAWP, {}, {} (thin-wall formula)", forms.words, condition.words()))?;
     let r_in = inside_radius(s, c, t.value)?;
     if p.value <= limit.value && t.value <= forms.radius_ratio * r_in {
         return Ok(p);
@@ -202,17 +161,10 @@ pub fn cylinder_thickness(s: &mut Sheet, c: &Component) -> Result<Quantity, Calc
 }
 
 /// MAWP of a cylinder for the bound thickness `t`: the smaller of the two.
-pub fn cylinder_mawp(
-    s: &mut Sheet,
-    c: &Component,
-    condition: Condition,
-) -> Result<Quantity, CalcError> {
+pub fn cylinder_mawp(s: &mut Sheet, c: &Component, condition: Condition) -> Result<Quantity, CalcError> {
     pressure(s, c, &CIRC_P, condition)?;
     pressure(s, c, &LONG_P, condition)?;
-    s.step(
-        &f::GOVERNING_P,
-        &format!("MAWP, {}: the smaller of the two", condition.words()),
-    )
+    s.step(&f::GOVERNING_P, &format!("MAWP, {}: the smaller of the two", condition.words()))
 }
 
 /// Required thickness of a sphere or hemispherical head.
@@ -221,10 +173,6 @@ pub fn sphere_thickness(s: &mut Sheet, c: &Component) -> Result<Quantity, CalcEr
 }
 
 /// MAWP of a sphere or hemispherical head for the bound thickness `t`.
-pub fn sphere_mawp(
-    s: &mut Sheet,
-    c: &Component,
-    condition: Condition,
-) -> Result<Quantity, CalcError> {
+pub fn sphere_mawp(s: &mut Sheet, c: &Component, condition: Condition) -> Result<Quantity, CalcError> {
     pressure(s, c, &SPHERE_P, condition)
 }

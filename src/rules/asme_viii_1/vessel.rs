@@ -8,16 +8,9 @@ use crate::rules::{ComponentResult, VesselResult};
 use crate::units::{Kind, Quantity};
 
 /// Evaluates the vessel from its component results.
-pub fn evaluate(
-    design: &Design,
-    components: &[ComponentResult],
-) -> Result<VesselResult, CalcError> {
+pub fn evaluate(design: &Design, components: &[ComponentResult]) -> Result<VesselResult, CalcError> {
     let mut s = Sheet::new("vessel", design.units);
-    s.input(
-        "P_d",
-        "design pressure at the vessel top",
-        design.conditions.pressure,
-    );
+    s.input("P_d", "design pressure at the vessel top", design.conditions.pressure);
 
     // The lowest MAWP referred to the top governs; components without a MAWP
     // (rules not applicable) cannot govern but make the vessel not acceptable.
@@ -29,11 +22,7 @@ pub fn evaluate(
             }
         }
     }
-    let missing: Vec<&str> = components
-        .iter()
-        .filter(|c| c.mawp_top.is_none())
-        .map(|c| c.id.as_str())
-        .collect();
+    let missing: Vec<&str> = components.iter().filter(|c| c.mawp_top.is_none()).map(|c| c.id.as_str()).collect();
     let (gov_id, mawp) = match governing {
         Some((c, top)) => (c.id.clone(), top),
         None => (String::new(), Quantity::new(0.0, Kind::Pressure)),
@@ -55,20 +44,13 @@ pub fn evaluate(
         s.not_covered(
             "every component has a MAWP",
             "UG-98",
-            &format!(
-                "no MAWP could be established for: {}; the vessel MAWP is not demonstrated",
-                missing.join(", ")
-            ),
+            &format!("no MAWP could be established for: {}; the vessel MAWP is not demonstrated", missing.join(", ")),
         );
     }
 
     // Lowest ratio of allowable stress at test temperature to that at design
     // temperature over the materials used (UG-99(b)).
-    let mut used: Vec<&str> = design
-        .components
-        .iter()
-        .map(|c| c.material.as_str())
-        .collect();
+    let mut used: Vec<&str> = design.components.iter().map(|c| c.material.as_str()).collect();
     used.sort();
     used.dedup();
     let mut lowest: Option<(f64, &str)> = None;
@@ -76,31 +58,16 @@ pub fn evaluate(
         let Some(m) = design.materials.get(key) else {
             continue;
         };
-        s.input(
-            "S_t",
-            &format!("allowable stress of {} at test temperature", m.name),
-            m.test_allowable_stress,
-        );
-        s.input(
-            "S",
-            &format!("allowable stress of {} at design temperature", m.name),
-            m.allowable_stress,
-        );
+        s.input("S_t", &format!("allowable stress of {} at test temperature", m.name), m.test_allowable_stress);
+        s.input("S", &format!("allowable stress of {} at design temperature", m.name), m.allowable_stress);
         let r = s.step(&f::STRESS_RATIO, &format!("stress ratio of {}", m.name))?;
         if lowest.is_none_or(|(v, _)| r.value < v) {
             lowest = Some((r.value, key));
         }
     }
     let (ratio, _) = lowest.unwrap_or((1.0, ""));
-    s.input(
-        "LSR",
-        "lowest stress ratio of the materials used",
-        Quantity::new(ratio, Kind::Dimensionless),
-    );
-    let hydro = s.step(
-        &f::HYDROTEST,
-        "minimum hydrostatic test pressure at the top",
-    )?;
+    s.input("LSR", "lowest stress ratio of the materials used", Quantity::new(ratio, Kind::Dimensionless));
+    let hydro = s.step(&f::HYDROTEST, "minimum hydrostatic test pressure at the top")?;
     let pneu = s.step(&f::PNEUMATIC, "minimum pneumatic test pressure at the top")?;
     let acceptable = s.checks.iter().all(|k| k.pass);
     Ok(VesselResult {

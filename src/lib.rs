@@ -17,11 +17,13 @@
 //! read through [`pipeline::SourceLoader`]), [`joints`] (Table UW-12) and
 //! [`stock`] (commercial plate and pipe thicknesses).
 
+pub mod archive;
 pub mod calc;
 pub mod case;
 pub mod cautions;
 pub mod cli;
 pub mod diag;
+pub mod diff;
 pub mod drawing;
 pub mod expr;
 pub mod fsio;
@@ -35,5 +37,6 @@ pub mod pipeline;
 pub mod render;
 pub mod results;
 pub mod rules;
+pub mod signing;
 pub mod stock;
 pub mod units;

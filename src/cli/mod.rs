@@ -9,6 +9,11 @@ pub mod compile;
 mod heads;
 mod inspect;
 mod materials;
+mod diff;
+mod issue;
+mod keygen;
+mod register;
+mod sign;
 mod starter;
 pub mod verify;
 
@@ -51,6 +56,16 @@ enum Command {
     Schema,
     /// List the materials of a library, or show one with its stress table.
     Materials(materials::MaterialsArgs),
+    /// Create a signing key pair for one person.
+    Keygen(keygen::Args),
+    /// Sign a package for a sign-off role.
+    Sign(sign::Args),
+    /// Show what changed between two revisions.
+    Diff(diff::Args),
+    /// Record an issued revision in an archive.
+    Issue(issue::Args),
+    /// Read or verify an archive's register.
+    Register(register::Args),
 }
 
 /// Runs the command line and returns the exit status.
@@ -75,6 +90,11 @@ pub fn run(args: Vec<OsString>) -> i32 {
             println!("{}", starter::schema_text());
             EXIT_OK
         }
+        Command::Keygen(a) => keygen::run(&a),
+        Command::Sign(a) => sign::run(&a),
+        Command::Diff(a) => diff::run(&a),
+        Command::Issue(a) => issue::run(&a),
+        Command::Register(a) => register::run(&a),
     }
 }
 

@@ -222,6 +222,11 @@ pub fn results_json(
             "project": design.document.project,
             "date": design.document.date,
         },
+        "sign_off": {
+            "prepared_by": design.sign_off.prepared_by,
+            "checked_by": design.sign_off.checked_by,
+            "approved_by": design.sign_off.approved_by,
+        },
         "rules": { "id": calc.rule_set, "title": calc.rule_set_title, "edition": calc.edition, "clause_note": calc.clause_note },
         "units": units_table(),
         "report_units": design.units.name(),

@@ -26,6 +26,24 @@ pub struct CompileArgs {
     /// Folder of templates overriding the built-in ones by file name.
     #[arg(long)]
     pub templates: Option<PathBuf>,
+    /// The previous revision (case file, results file or package folder): adds a
+    /// "changes since" section. Only with a single case.
+    #[arg(long)]
+    pub previous: Option<PathBuf>,
+    /// A signed package folder of the same calculation: its valid signatures are
+    /// shown in the sign-off table (the digest stays the same).
+    #[arg(long)]
+    pub signatures: Option<PathBuf>,
+    /// Trusted public keys for --signatures (signatures by other keys are refused).
+    #[arg(long, num_args = 1..)]
+    pub trust: Vec<PathBuf>,
+}
+
+/// Extra inputs of a compile beyond the case itself.
+struct Extras<'a> {
+    previous: Option<&'a Path>,
+    signatures: Option<&'a Path>,
+    trusted: Vec<crate::signing::PublicKey>,
 }
 
 /// The outcome of one case.
@@ -61,7 +79,7 @@ pub fn parse_paper(s: &str) -> Result<Paper, String> {
 }
 
 /// Compiles one case into `out`; returns what happened.
-fn compile_one(case: &Path, out: &Path, templates: &TemplateSet, options: &Options) -> Outcome {
+fn compile_one(case: &Path, out: &Path, templates: &TemplateSet, options: &Options, extras: &Extras) -> Outcome {
     let file = case.display().to_string();
     let source = match std::fs::read_to_string(case) {
         Ok(s) => s,
@@ -71,7 +89,32 @@ fn compile_one(case: &Path, out: &Path, templates: &TemplateSet, options: &Optio
         Ok(ev) => ev,
         Err(e) => return Outcome::InputError(e.render()),
     };
-    let additions = additions_for(&ev);
+    let mut additions = additions_for(&ev);
+    if let Some(prev) = extras.previous {
+        match super::diff::changes_since(prev, &ev) {
+            Ok(md) => additions.changes = Some(md),
+            Err(e) => {
+                return Outcome::InputError(format!("error: --previous `{}`: {}\n", prev.display(), e.trim_end()))
+            }
+        }
+    }
+    if let Some(dir) = extras.signatures {
+        // The digest does not depend on signatures, so it can be computed first
+        // and the signatures checked against it.
+        let unsigned = match package::compile(
+            &ev,
+            templates,
+            &additions,
+            &Options { formats: package::Formats { md: false, pdf: false, json: true }, ..options.clone() },
+        ) {
+            Ok(p) => p,
+            Err(e) => return Outcome::InputError(format!("error: {file}: {e}\n")),
+        };
+        match signatures_for(dir, &unsigned, &extras.trusted) {
+            Ok(sigs) => additions.signatures = sigs,
+            Err(e) => return Outcome::InputError(format!("error: --signatures `{}`: {e}\n", dir.display())),
+        }
+    }
     let pkg = match package::compile(&ev, templates, &additions, options) {
         Ok(p) => p,
         Err(e) => return Outcome::InputError(format!("error: {file}: {e}\n")),
@@ -82,6 +125,41 @@ fn compile_one(case: &Path, out: &Path, templates: &TemplateSet, options: &Optio
             Outcome::InputError(format!("error: {file}: cannot write the package into `{}`: {e}\n", out.display()))
         }
     }
+}
+
+/// The valid, trusted signatures of the signed package in `dir` whose
+/// digest equals this package's digest.
+fn signatures_for(
+    dir: &Path,
+    pkg: &package::Package,
+    trusted: &[crate::signing::PublicKey],
+) -> Result<Vec<(String, String, String, String)>, String> {
+    let path = dir.join(pkg.manifest_name());
+    let text = std::fs::read_to_string(&path).map_err(|e| format!("cannot read `{}`: {e}", path.display()))?;
+    let m = crate::package::manifest::Manifest::from_json(&text)?;
+    if m.digest != pkg.digest {
+        return Err(format!(
+            "the signed package has digest {} but this case compiles to {}: the signatures are for another calculation",
+            &m.digest[..12],
+            &pkg.digest[..12]
+        ));
+    }
+    let reports = crate::signing::verify_signatures(dir, &m, trusted);
+    if reports.is_empty() {
+        return Err("the package carries no signatures".into());
+    }
+    let mut out = Vec::new();
+    for r in reports {
+        if !r.approves() {
+            return Err(format!(
+                "the {} signature ({}) is not a valid signature by a trusted key on the unchanged package; give the signer's public key with --trust",
+                r.role,
+                if r.signer.is_empty() { "unknown signer" } else { &r.signer }
+            ));
+        }
+        out.push((r.role, r.signer, r.date, r.fingerprint));
+    }
+    Ok(out)
 }
 
 /// Geometry rows, figures and JSON additions for the package.
@@ -134,6 +212,21 @@ pub fn run(a: &CompileArgs) -> i32 {
         return EXIT_INPUT;
     }
     let options = Options { formats, paper };
+    if a.previous.is_some() && a.cases.len() != 1 {
+        eprintln!("error: --previous compares one revision with another; give a single case file");
+        return EXIT_INPUT;
+    }
+    let mut trusted = Vec::new();
+    for t in &a.trust {
+        match crate::signing::PublicKey::load(t) {
+            Ok(k) => trusted.push(k),
+            Err(e) => {
+                eprintln!("error: --trust: {e}");
+                return EXIT_INPUT;
+            }
+        }
+    }
+    let extras = Extras { previous: a.previous.as_deref(), signatures: a.signatures.as_deref(), trusted };
     let bar = (a.cases.len() >= 8 && std::io::stderr().is_terminal()).then(|| {
         let b = indicatif::ProgressBar::new(a.cases.len() as u64);
         if let Ok(style) = indicatif::ProgressStyle::with_template("{bar:40} {pos}/{len} cases") {
@@ -145,7 +238,7 @@ pub fn run(a: &CompileArgs) -> i32 {
         .cases
         .par_iter()
         .map(|c| {
-            let o = compile_one(c, &a.out, &templates, &options);
+            let o = compile_one(c, &a.out, &templates, &options, &extras);
             if let Some(b) = &bar {
                 b.inc(1);
             }

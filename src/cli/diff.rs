@@ -4,7 +4,7 @@
 
 use super::{EXIT_INPUT, EXIT_OK};
 use crate::diff::{diff_markdown, diff_snapshots, diff_text, Snapshot};
-use crate::pipeline::{evaluate, Evaluated};
+use crate::pipeline::{evaluate_with, Evaluated, FsLoader};
 use crate::signing::select_manifest;
 use std::path::{Path, PathBuf};
 
@@ -21,12 +21,12 @@ pub struct Args {
 }
 
 /// One side of the comparison as read.
-enum Side {
+pub(crate) enum Side {
     Case(Box<Evaluated>),
     Results(serde_json::Value),
 }
 
-fn load(path: &Path) -> Result<Side, String> {
+pub(crate) fn load(path: &Path) -> Result<Side, String> {
     let results_path = if path.is_dir() {
         let (_, m) = select_manifest(path, None)
             .map_err(|e| format!("{e}; or name the package's results file (`<number>_rev<revision>.json`) directly"))?;
@@ -48,9 +48,25 @@ fn load(path: &Path) -> Result<Side, String> {
         None => {
             let source = std::fs::read_to_string(path)
                 .map_err(|e| format!("cannot read case file `{}`: {e}", path.display()))?;
-            evaluate(&path.display().to_string(), &source).map(|ev| Side::Case(Box::new(ev))).map_err(|e| e.render())
+            evaluate_with(&path.display().to_string(), &source, &FsLoader::beside(path))
+                .map(|ev| Side::Case(Box::new(ev)))
+                .map_err(|e| e.render())
         }
     }
+}
+
+/// The "changes since the previous revision" Markdown section for a package
+/// of `new`, against `previous` (a case file, results file or package folder).
+pub(crate) fn changes_since(previous: &Path, new: &Evaluated) -> Result<String, String> {
+    let old = load(previous)?;
+    let (o, n) = match &old {
+        Side::Case(o) => (Snapshot::from_evaluated(o), Snapshot::from_evaluated(new)),
+        Side::Results(_) => {
+            let n = crate::results::results_json(&new.design, &new.calculation, &Default::default());
+            (Snapshot::from_results(&as_results(&old))?, Snapshot::from_results(&n)?)
+        }
+    };
+    Ok(diff_markdown(&diff_snapshots(&o, &n)))
 }
 
 fn as_results(side: &Side) -> serde_json::Value {

@@ -6,12 +6,12 @@
 
 mod check;
 pub mod compile;
+pub(crate) mod diff;
 mod heads;
 mod inspect;
-mod materials;
-mod diff;
 mod issue;
 mod keygen;
+mod materials;
 mod register;
 mod sign;
 mod starter;

@@ -19,6 +19,15 @@ pub struct VerifyArgs {
     /// Template folder the package was compiled with, if not the built-in one.
     #[arg(long)]
     pub templates: Option<PathBuf>,
+    /// The previous revision the package's "changes since" section was made from.
+    #[arg(long)]
+    pub previous: Option<PathBuf>,
+    /// Public keys (`.pub` files) whose signatures count as approval.
+    #[arg(long, num_args = 1..)]
+    pub trust: Vec<PathBuf>,
+    /// Fail unless every role named in the case's sign-off has a valid signature by a trusted key.
+    #[arg(long)]
+    pub require_signoff: bool,
 }
 
 /// The verification of one manifest, in plain words.
@@ -98,7 +107,17 @@ pub fn run(a: &VerifyArgs) -> i32 {
                 None => TemplateSet::default(),
             };
             let opts = Options { formats: package::Formats { md: true, pdf: false, json: true }, ..Options::default() };
-            match package::compile(&ev, &templates, &super::compile::additions_for(&ev), &opts) {
+            let mut additions = super::compile::additions_for(&ev);
+            if let Some(prev) = &a.previous {
+                match super::diff::changes_since(prev, &ev) {
+                    Ok(md) => additions.changes = Some(md),
+                    Err(e) => {
+                        eprintln!("error: --previous `{}`: {}", prev.display(), e.trim_end());
+                        return EXIT_INPUT;
+                    }
+                }
+            }
+            match package::compile(&ev, &templates, &additions, &opts) {
                 Ok(p) => Some(p),
                 Err(e) => {
                     eprintln!("error: {e}");
@@ -107,6 +126,16 @@ pub fn run(a: &VerifyArgs) -> i32 {
             }
         }
     };
+    let mut trusted = Vec::new();
+    for t in &a.trust {
+        match crate::signing::PublicKey::load(t) {
+            Ok(k) => trusted.push(k),
+            Err(e) => {
+                eprintln!("error: --trust: {e}");
+                return EXIT_INPUT;
+            }
+        }
+    }
     let mut all_ok = true;
     let mut matched_case = recompiled.is_none();
     for mp in &manifests {
@@ -150,6 +179,17 @@ pub fn run(a: &VerifyArgs) -> i32 {
                         "the package has been altered or is incomplete"
                     }
                 );
+                let signoff = crate::signing::signoff_report(&a.dir, &m, &trusted);
+                for line in crate::signing::format_signoff_text(&signoff).lines() {
+                    println!("  {line}");
+                }
+                // A listed signature that does not hold is a failure; missing
+                // roles and untrusted keys fail only when sign-off is required.
+                let invalid = signoff.signatures.iter().any(|s| s.state != crate::signing::SignatureState::Valid);
+                all_ok &= !invalid;
+                if a.require_signoff {
+                    all_ok &= signoff.complete();
+                }
             }
         }
     }

@@ -23,6 +23,7 @@ struct Canonical<'a> {
     calculation: &'a crate::rules::Calculation,
     extra: &'a BTreeMap<String, serde_json::Map<String, serde_json::Value>>,
     templates: BTreeMap<String, String>,
+    changes: Option<&'a str>,
 }
 
 /// The canonical bytes the digest is taken over (exposed for tests and audits).
@@ -30,6 +31,7 @@ pub fn canonical_bytes(
     ev: &Evaluated,
     templates: &TemplateSet,
     extra: &BTreeMap<String, serde_json::Map<String, serde_json::Value>>,
+    changes: Option<&str>,
 ) -> Vec<u8> {
     let c = Canonical {
         format: "knuckle-digest/1",
@@ -40,6 +42,7 @@ pub fn canonical_bytes(
         calculation: &ev.calculation,
         extra,
         templates: templates.hashes(),
+        changes,
     };
     serde_json::to_vec(&c).unwrap_or_default()
 }
@@ -49,6 +52,7 @@ pub fn digest(
     ev: &Evaluated,
     templates: &TemplateSet,
     extra: &BTreeMap<String, serde_json::Map<String, serde_json::Value>>,
+    changes: Option<&str>,
 ) -> String {
-    crate::package::manifest::hex(&Sha256::digest(canonical_bytes(ev, templates, extra)))
+    crate::package::manifest::hex(&Sha256::digest(canonical_bytes(ev, templates, extra, changes)))
 }

@@ -61,6 +61,10 @@ pub struct Additions {
     pub figures: BTreeMap<String, Drawing>,
     /// SVG text of each figure, by file name.
     pub svg: BTreeMap<String, String>,
+    /// A "changes since the previous revision" section (Markdown), when asked for.
+    pub changes: Option<String>,
+    /// Signatures to show in the sign-off table: (role, signer, date, fingerprint).
+    pub signatures: Vec<(String, String, String, String)>,
 }
 
 /// A compiled package, ready to write.
@@ -128,8 +132,9 @@ pub fn compile(
     let design = &ev.design;
     let d = &design.document;
     let stem = package_stem(&d.number, &d.revision);
-    let digest = digest::digest(ev, templates, &additions.json);
-    let ctx = context::build(ev, &digest, &additions.sheets);
+    let digest = digest::digest(ev, templates, &additions.json, additions.changes.as_deref());
+    let mut ctx = context::build(ev, &digest, &additions.sheets);
+    context::add_changes_and_signatures(&mut ctx, additions.changes.as_deref(), &additions.signatures);
     let markdown = templates.render(&ctx).map_err(PackageError::Template)?;
     ensure_cautions(ev, &markdown)?;
 

@@ -262,3 +262,25 @@ mod tests {
         assert_eq!(md("line\nbreak"), "line break");
     }
 }
+
+/// Adds the optional "changes since" section and the signatures shown in
+/// the sign-off table. Neither is an engineering value; the signatures are
+/// not part of the digest (a signed copy keeps the digest it was signed under).
+pub fn add_changes_and_signatures(
+    ctx: &mut Value,
+    changes: Option<&str>,
+    signatures: &[(String, String, String, String)],
+) {
+    ctx["changes"] = json!(changes.unwrap_or(""));
+    ctx["signed"] = json!(!signatures.is_empty());
+    if let Some(rows) = ctx["sign_off"].as_array_mut() {
+        for row in rows.iter_mut() {
+            let role = row["role"].as_str().unwrap_or("").to_ascii_lowercase();
+            if let Some((_, signer, date, fp)) = signatures.iter().find(|(r, ..)| *r == role) {
+                row["name"] = json!(md(signer));
+                row["date"] = json!(md(date));
+                row["signature"] = json!(md(&format!("Ed25519, key {fp}")));
+            }
+        }
+    }
+}

@@ -75,6 +75,7 @@ fn order_json(o: &OrderItem) -> Value {
         "ordered_as": o.ordered_as,
         "blank_width": num(o.blank_width),
         "blank_length": num(o.blank_length),
+        "blank_diameter": num(o.blank_diameter),
     })
 }
 

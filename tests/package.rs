@@ -258,3 +258,24 @@ fn letter_paper_and_format_options() {
     assert_eq!(compile_into(&dir, &["--paper", "a3"]).status.code(), Some(2));
     assert_eq!(compile_into(&dir, &["--format", "docx"]).status.code(), Some(2));
 }
+
+#[test]
+fn digest_does_not_depend_on_the_working_folder_regression() {
+    // Broke once: the materials library path was recorded as joined to the
+    // folder the command ran in, so the same case gave two digests.
+    let a = scratch("package-cwd-a");
+    let b = scratch("package-cwd-b");
+    let run = |cwd: &Path, case: &str, out: &Path| {
+        std::process::Command::new(env!("CARGO_BIN_EXE_knuckle"))
+            .args(["compile", case, "--out", out.to_str().unwrap(), "--format", "json"])
+            .current_dir(cwd)
+            .output()
+            .unwrap()
+    };
+    assert_eq!(run(&root(), "examples/v420-solvent-tank-si.toml", &a).status.code(), Some(0));
+    assert_eq!(run(&root().join("examples"), "v420-solvent-tank-si.toml", &b).status.code(), Some(0));
+    let stem = "DEMO-V420-CALC-001_revA.manifest.json";
+    let da: Value = serde_json::from_slice(&std::fs::read(a.join(stem)).unwrap()).unwrap();
+    let db: Value = serde_json::from_slice(&std::fs::read(b.join(stem)).unwrap()).unwrap();
+    assert_eq!(da["digest"], db["digest"]);
+}

@@ -148,7 +148,7 @@ pub fn summary_text(ev: &Evaluated) -> String {
             let blank = match (o.blank_width, o.blank_length) {
                 (Some(w), Some(l)) => format!(", blank {} × {}", u.display(w), u.display(l)),
                 (None, Some(l)) => format!(", length {}", u.display(l)),
-                _ => String::new(),
+                _ => o.blank_diameter.map(|d| format!(", blank Ø {}", u.display_up(d))).unwrap_or_default(),
             };
             let thickness = u.display(o.thickness);
             let what = if o.ordered_as.contains(&thickness) {

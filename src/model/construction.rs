@@ -189,7 +189,9 @@ fn library_material(
         density: lm.density,
         product_form: lm.product_form,
         library: Some(LibraryLookup {
-            file: library.file.clone(),
+            // The path as written in the case (relative to it), so that the
+            // design and its digest do not depend on the working folder.
+            file: path.get_ref().clone(),
             caution: library.caution.clone(),
             material: lm.clone(),
             design,

@@ -194,7 +194,12 @@ pub fn build(ev: &Evaluated, digest: &str, extras: &std::collections::BTreeMap<S
                 "type": md(&c.type_name),
                 "required": opt_up(u, c.required_thickness),
                 "minimum": opt_up(u, c.minimum_thickness),
-                "nominal": c.nominal_thickness.map(|t| opt_up(u, Some(t))).unwrap_or_else(|| "not given".into()),
+                "nominal": match (c.nominal_thickness, c.selected_thickness) {
+                    (Some(t), _) => opt_up(u, Some(t)),
+                    (None, Some(t)) => format!("{} (selected)", opt_up(u, Some(t))),
+                    (None, None) => "not given".into(),
+                },
+                "mass": c.mass.map(|m| nbsp(&u.display(m))).unwrap_or_else(|| "–".into()),
                 "mawp": opt_down(u, c.mawp),
                 "status": if c.acceptable { "acceptable" } else { "**NOT ACCEPTABLE**" },
             })
@@ -246,6 +251,28 @@ pub fn build(ev: &Evaluated, digest: &str, extras: &std::collections::BTreeMap<S
             "checks": v.checks.iter().map(|k| check_row(u, k)).collect::<Vec<_>>(),
         },
         "failed": failed,
+        "quantities": {
+            "empty_mass": v.empty_mass.map(|q| u.display(q)),
+            "volume": v.volume.map(|q| u.display(q)),
+            "liquid_mass": v.liquid_mass.map(|q| u.display(q)),
+            "excluded": v.totals_exclude.iter().map(|x| md(x)).collect::<Vec<_>>(),
+        },
+        "order": v.order_list.iter().map(|o| {
+            let blank = match (o.blank_width, o.blank_length, o.blank_diameter) {
+                (Some(w), Some(l), _) => format!("{} × {}", u.display(w), u.display(l)),
+                (None, Some(l), _) => format!("length {}", u.display(l)),
+                (_, _, Some(d)) => format!("Ø {}", u.display_up(d)),
+                _ => "–".to_string(),
+            };
+            json!({
+                "component": md(&o.component),
+                "material": md(&o.material),
+                "form": md(&o.product_form),
+                "ordered_as": md(&o.ordered_as),
+                "thickness": nbsp(&u.display(o.thickness)),
+                "blank": nbsp(&md(&blank)),
+            })
+        }).collect::<Vec<_>>(),
         "components": calc.components.iter().enumerate().map(|(i, c)| component(design, u, i + 1, c, extras.get(&c.id))).collect::<Vec<_>>(),
         "cautions": { "standing": standing, "specific": specific },
         "echo": echo(design),

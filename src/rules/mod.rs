@@ -133,6 +133,8 @@ pub struct OrderItem {
     /// Blank length (for a rolled cylinder: the developed length on the mean
     /// diameter; for pipe: the length to cut), when known.
     pub blank_length: Option<Quantity>,
+    /// Diameter of the flat blank of a formed head (mean-surface equal-area method), when known.
+    pub blank_diameter: Option<Quantity>,
 }
 
 /// Vessel-level results.

@@ -239,7 +239,10 @@ pub fn evaluate_component(design: &Design, c: &Component) -> Result<ComponentRes
     } else {
         mass::shell(&mut s, c, material)?
     };
-    let order = order_item(c, material, nominal, chosen.selected.as_ref(), mv);
+    let mut order = order_item(c, material, nominal, chosen.selected.as_ref(), mv);
+    if c.kind.is_formed_head() {
+        order.blank_diameter = geometry.as_ref().map(|g| len(g.properties.blank_diameter.value * 1e-3));
+    }
 
     let mut result =
         finish(c, s, Some(required), Some(minimum), p, static_head, Some(mawp), Some(top), Some(map), limits);
@@ -329,6 +332,7 @@ fn order_item(
         ordered_as,
         blank_width: width,
         blank_length: length,
+        blank_diameter: None,
     }
 }
 

@@ -180,12 +180,11 @@ fn f3(v: f64) -> String {
     format!("{v:.3}")
 }
 
+/// Files of a record: (name, bytes), in writing order.
+pub type Files = Vec<(String, Vec<u8>)>;
+
 /// Renders the record into files (name, bytes) and their manifest.
-pub fn record_files(
-    ev: &Evaluated,
-    rec: &InspectionRecord,
-    paper: Paper,
-) -> Result<(Vec<(String, Vec<u8>)>, Manifest), String> {
+pub fn record_files(ev: &Evaluated, rec: &InspectionRecord, paper: Paper) -> Result<(Files, Manifest), String> {
     let d = &ev.design.document;
     let stem = format!("{}_rev{}_inspection_{}", d.number, d.revision, rec.component);
     let plot_name = format!("{stem}_deviation.svg");

@@ -279,17 +279,6 @@ pub fn build(ev: &Evaluated, digest: &str, extras: &std::collections::BTreeMap<S
     })
 }
 
-#[cfg(test)]
-mod tests {
-    use super::md;
-
-    #[test]
-    fn escapes_markdown_specials() {
-        assert_eq!(md("a|b *c* _d_"), "a\\|b \\*c\\* \\_d\\_");
-        assert_eq!(md("line\nbreak"), "line break");
-    }
-}
-
 /// Adds the optional "changes since" section and the signatures shown in
 /// the sign-off table. Neither is an engineering value; the signatures are
 /// not part of the digest (a signed copy keeps the digest it was signed under).
@@ -309,5 +298,16 @@ pub fn add_changes_and_signatures(
                 row["signature"] = json!(md(&format!("Ed25519, key {fp}")));
             }
         }
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::md;
+
+    #[test]
+    fn escapes_markdown_specials() {
+        assert_eq!(md("a|b *c* _d_"), "a\\|b \\*c\\* \\_d\\_");
+        assert_eq!(md("line\nbreak"), "line break");
     }
 }

@@ -20,18 +20,35 @@ pub struct SheetExtras {
     pub figures: Vec<(String, String)>,
 }
 
-/// Escapes text for a Markdown table cell or paragraph.
+/// Escapes text for a Markdown table cell or paragraph. Text between
+/// backticks is kept as code (only `|` is escaped there, as GFM tables need).
 pub fn md(text: &str) -> String {
     let mut out = String::with_capacity(text.len());
+    let mut in_code = false;
     for ch in text.chars() {
         match ch {
-            '|' | '*' | '_' | '`' | '[' | ']' | '<' | '>' | '#' | '\\' => {
-                out.push('\\');
+            '`' => {
+                in_code = !in_code;
                 out.push(ch);
             }
             '\n' | '\r' => out.push(' '),
+            '|' => out.push_str("\\|"),
+            '*' | '_' | '[' | ']' | '<' | '>' | '#' | '\\' if !in_code => {
+                out.push('\\');
+                out.push(ch);
+            }
             _ => out.push(ch),
         }
+    }
+    // An unpaired backtick would swallow the rest of the cell: escape them all.
+    if in_code {
+        return text.replace('\n', " ").chars().fold(String::new(), |mut acc, ch| {
+            if "|*_`[]<>#\\".contains(ch) {
+                acc.push('\\');
+            }
+            acc.push(ch);
+            acc
+        });
     }
     out
 }
@@ -309,5 +326,8 @@ mod tests {
     fn escapes_markdown_specials() {
         assert_eq!(md("a|b *c* _d_"), "a\\|b \\*c\\* \\_d\\_");
         assert_eq!(md("line\nbreak"), "line break");
+        // Backticks are kept so that `names` render as code.
+        assert_eq!(md("table `a_b[0]`"), "table `a_b[0]`");
+        assert_eq!(md("odd ` tick"), "odd \\` tick");
     }
 }

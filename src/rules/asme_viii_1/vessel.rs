@@ -73,7 +73,14 @@ pub fn evaluate(design: &Design, components: &[ComponentResult]) -> Result<Vesse
         }
     }
     let (ratio, _) = lowest.unwrap_or((1.0, ""));
-    s.input("LSR", "lowest stress ratio of the materials used", Quantity::new(ratio, Kind::Dimensionless));
+    s.derived(
+        "LSR",
+        "lowest stress ratio of the materials used",
+        "UG-99(b)",
+        "min(LSR of every material)",
+        &format!("min({})", ratios.join("; ")),
+        Quantity::new(ratio, Kind::Dimensionless),
+    );
     let hydro = s.step(&f::HYDROTEST, "minimum hydrostatic test pressure at the top")?;
     let pneu = s.step(&f::PNEUMATIC, "minimum pneumatic test pressure at the top")?;
     let totals = totals(&mut s, design, components)?;

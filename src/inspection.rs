@@ -7,7 +7,7 @@
 
 use crate::diag::{Diagnostic, InputErrors};
 use crate::geometry::{deviation_plot, point_deviations, ug81_limits, DrawingLabels, PlotData, PointDeviation};
-use crate::package::manifest::{sha256_hex, DocumentId, FileEntry, Manifest, ToolId, MANIFEST_FORMAT};
+use crate::package::manifest::{DocumentId, Manifest};
 use crate::pipeline::Evaluated;
 use crate::render::context::md;
 use crate::render::pdf::{markdown_to_pdf, Paper, PdfMetadata, PdfOptions};
@@ -260,26 +260,19 @@ pub fn record_files(ev: &Evaluated, rec: &InspectionRecord, paper: Paper) -> Res
         (format!("{stem}.md"), markdown.into_bytes()),
         (format!("{stem}.pdf"), pdf),
     ];
-    let mut entries: Vec<FileEntry> = files
-        .iter()
-        .map(|(n, b)| FileEntry { name: n.clone(), sha256: sha256_hex(b), bytes: b.len() as u64 })
-        .collect();
-    entries.sort_by(|a, b| a.name.cmp(&b.name));
-    let manifest = Manifest {
-        format: MANIFEST_FORMAT.into(),
-        tool: ToolId { name: crate::results::TOOL_NAME.into(), version: crate::results::TOOL_VERSION.into() },
-        document: DocumentId {
-            number: d.number.clone(),
-            revision: d.revision.clone(),
-            date: d.date.clone(),
-            title: format!("inspection record, {}", rec.component),
-        },
-        rules: ev.calculation.rule_set.clone(),
-        edition: ev.calculation.edition.clone(),
-        digest: rec.digest.clone(),
-        status: if rec.pass { "acceptable".into() } else { "not-acceptable".into() },
-        files: entries,
-        signatures: Vec::new(),
+    let document = DocumentId {
+        number: d.number.clone(),
+        revision: d.revision.clone(),
+        date: d.date.clone(),
+        title: format!("inspection record, {}", rec.component),
     };
+    let manifest = Manifest::over_files(
+        document,
+        &ev.calculation.rule_set,
+        &ev.calculation.edition,
+        &rec.digest,
+        rec.pass,
+        &files,
+    );
     Ok((files, manifest))
 }

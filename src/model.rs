@@ -504,16 +504,16 @@ fn iso_date(key: &str, v: &Spanned<toml::Value>, r: &mut Reader) -> Option<Strin
 /// True for a real calendar date written `YYYY-MM-DD`.
 pub fn valid_iso_date(s: &str) -> bool {
     let b = s.as_bytes();
-    if b.len() != 10 || b[4] != b'-' || b[7] != b'-' {
+    // Digits everywhere but the two dashes: `parse` alone would take "+1".
+    let shape = b.len() == 10
+        && b.iter().enumerate().all(|(i, c)| if i == 4 || i == 7 { *c == b'-' } else { c.is_ascii_digit() });
+    if !shape {
         return false;
     }
     let num = |r: Range<usize>| s.get(r).and_then(|t| t.parse::<u32>().ok());
     let (Some(y), Some(m), Some(d)) = (num(0..4), num(5..7), num(8..10)) else {
         return false;
     };
-    if !s[0..4].bytes().all(|c| c.is_ascii_digit()) {
-        return false;
-    }
     let leap = (y % 4 == 0 && y % 100 != 0) || y % 400 == 0;
     let days = match m {
         1 | 3 | 5 | 7 | 8 | 10 | 12 => 31,
@@ -1315,5 +1315,8 @@ mod tests {
         assert!(!valid_iso_date("2023-13-01"));
         assert!(!valid_iso_date("2023-1-01"));
         assert!(!valid_iso_date("+023-01-01"));
+        // Regression: a sign in the month or day passed the number parser.
+        assert!(!valid_iso_date("2026-+1-01"));
+        assert!(!valid_iso_date("2026-01-+1"));
     }
 }

@@ -197,15 +197,9 @@ pub fn run(a: &CompileArgs) -> i32 {
             return EXIT_INPUT;
         }
     };
-    let templates = match &a.templates {
-        Some(dir) => match TemplateSet::with_overrides(dir) {
-            Ok(t) => t,
-            Err(e) => {
-                eprintln!("error: {e}");
-                return EXIT_INPUT;
-            }
-        },
-        None => TemplateSet::default(),
+    let templates = match super::load_templates(a.templates.as_deref()) {
+        Ok(t) => t,
+        Err(code) => return code,
     };
     if let Err(e) = std::fs::create_dir_all(&a.out) {
         eprintln!("error: cannot create the output folder `{}`: {e}", a.out.display());
@@ -216,16 +210,10 @@ pub fn run(a: &CompileArgs) -> i32 {
         eprintln!("error: --previous compares one revision with another; give a single case file");
         return EXIT_INPUT;
     }
-    let mut trusted = Vec::new();
-    for t in &a.trust {
-        match crate::signing::PublicKey::load(t) {
-            Ok(k) => trusted.push(k),
-            Err(e) => {
-                eprintln!("error: --trust: {e}");
-                return EXIT_INPUT;
-            }
-        }
-    }
+    let trusted = match super::load_trusted(&a.trust) {
+        Ok(t) => t,
+        Err(code) => return code,
+    };
     let extras = Extras { previous: a.previous.as_deref(), signatures: a.signatures.as_deref(), trusted };
     let bar = (a.cases.len() >= 8 && std::io::stderr().is_terminal()).then(|| {
         let b = indicatif::ProgressBar::new(a.cases.len() as u64);

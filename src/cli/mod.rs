@@ -105,3 +105,27 @@ pub(crate) fn read_case(path: &Path) -> Result<String, i32> {
         EXIT_INPUT
     })
 }
+
+/// The built-in templates, or those of `dir` laid over them; prints why not.
+pub(crate) fn load_templates(dir: Option<&Path>) -> Result<crate::render::templates::TemplateSet, i32> {
+    match dir {
+        Some(d) => crate::render::templates::TemplateSet::with_overrides(d).map_err(|e| {
+            eprintln!("error: {e}");
+            EXIT_INPUT
+        }),
+        None => Ok(crate::render::templates::TemplateSet::default()),
+    }
+}
+
+/// The public keys of a `--trust` list; prints why not.
+pub(crate) fn load_trusted(paths: &[std::path::PathBuf]) -> Result<Vec<crate::signing::PublicKey>, i32> {
+    paths
+        .iter()
+        .map(|p| {
+            crate::signing::PublicKey::load(p).map_err(|e| {
+                eprintln!("error: --trust: {e}");
+                EXIT_INPUT
+            })
+        })
+        .collect()
+}

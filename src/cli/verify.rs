@@ -5,7 +5,6 @@
 use super::{EXIT_INPUT, EXIT_NOT_ACCEPTABLE, EXIT_OK};
 use crate::package::manifest::{check_files, find_manifests, FileState, Manifest};
 use crate::package::{self, Options};
-use crate::render::templates::TemplateSet;
 use std::path::{Path, PathBuf};
 
 /// Arguments of `verify`.
@@ -96,15 +95,9 @@ pub fn run(a: &VerifyArgs) -> i32 {
                     return EXIT_INPUT;
                 }
             };
-            let templates = match &a.templates {
-                Some(d) => match TemplateSet::with_overrides(d) {
-                    Ok(t) => t,
-                    Err(e) => {
-                        eprintln!("error: {e}");
-                        return EXIT_INPUT;
-                    }
-                },
-                None => TemplateSet::default(),
+            let templates = match super::load_templates(a.templates.as_deref()) {
+                Ok(t) => t,
+                Err(code) => return code,
             };
             let opts = Options { formats: package::Formats { md: true, pdf: false, json: true }, ..Options::default() };
             let mut additions = super::compile::additions_for(&ev);
@@ -126,16 +119,10 @@ pub fn run(a: &VerifyArgs) -> i32 {
             }
         }
     };
-    let mut trusted = Vec::new();
-    for t in &a.trust {
-        match crate::signing::PublicKey::load(t) {
-            Ok(k) => trusted.push(k),
-            Err(e) => {
-                eprintln!("error: --trust: {e}");
-                return EXIT_INPUT;
-            }
-        }
-    }
+    let trusted = match super::load_trusted(&a.trust) {
+        Ok(t) => t,
+        Err(code) => return code,
+    };
     let mut all_ok = true;
     let mut matched_case = recompiled.is_none();
     for mp in &manifests {

@@ -101,6 +101,34 @@ pub fn hex(bytes: &[u8]) -> String {
 }
 
 impl Manifest {
+    /// A manifest over `files` (name, bytes), listed sorted by name, for the
+    /// current tool.
+    pub fn over_files(
+        document: DocumentId,
+        rules: &str,
+        edition: &str,
+        digest: &str,
+        acceptable: bool,
+        files: &[(String, Vec<u8>)],
+    ) -> Manifest {
+        let mut entries: Vec<FileEntry> = files
+            .iter()
+            .map(|(n, b)| FileEntry { name: n.clone(), sha256: sha256_hex(b), bytes: b.len() as u64 })
+            .collect();
+        entries.sort_by(|a, b| a.name.cmp(&b.name));
+        Manifest {
+            format: MANIFEST_FORMAT.to_string(),
+            tool: ToolId { name: crate::results::TOOL_NAME.into(), version: crate::results::TOOL_VERSION.into() },
+            document,
+            rules: rules.to_string(),
+            edition: edition.to_string(),
+            digest: digest.to_string(),
+            status: if acceptable { "acceptable".into() } else { "not-acceptable".into() },
+            files: entries,
+            signatures: Vec::new(),
+        }
+    }
+
     /// The manifest as pretty, deterministic JSON text (with final newline).
     pub fn to_json(&self) -> String {
         let mut s = serde_json::to_string_pretty(self).unwrap_or_default();

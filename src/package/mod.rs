@@ -13,7 +13,7 @@ use crate::pipeline::Evaluated;
 use crate::render::context::{self, SheetExtras};
 use crate::render::pdf::{self, Paper, PdfMetadata, PdfOptions};
 use crate::render::templates::{TemplateError, TemplateSet};
-use manifest::{package_stem, sha256_hex, DocumentId, FileEntry, Manifest, ToolId, MANIFEST_FORMAT};
+use manifest::{package_stem, DocumentId, Manifest};
 use std::collections::BTreeMap;
 use std::fmt;
 
@@ -179,27 +179,15 @@ pub fn compile(
         files.push((format!("{stem}.pdf"), bytes));
     }
 
-    let mut entries: Vec<FileEntry> = files
-        .iter()
-        .map(|(n, b)| FileEntry { name: n.clone(), sha256: sha256_hex(b), bytes: b.len() as u64 })
-        .collect();
-    entries.sort_by(|a, b| a.name.cmp(&b.name));
-    let manifest = Manifest {
-        format: MANIFEST_FORMAT.to_string(),
-        tool: ToolId { name: crate::results::TOOL_NAME.into(), version: crate::results::TOOL_VERSION.into() },
-        document: DocumentId {
-            number: d.number.clone(),
-            revision: d.revision.clone(),
-            date: d.date.clone(),
-            title: d.title.clone(),
-        },
-        rules: ev.calculation.rule_set.clone(),
-        edition: ev.calculation.edition.clone(),
-        digest: digest.clone(),
-        status: if ev.calculation.acceptable() { "acceptable".into() } else { "not-acceptable".into() },
-        files: entries,
-        signatures: Vec::new(),
+    let document = DocumentId {
+        number: d.number.clone(),
+        revision: d.revision.clone(),
+        date: d.date.clone(),
+        title: d.title.clone(),
     };
+    let acceptable = ev.calculation.acceptable();
+    let manifest =
+        Manifest::over_files(document, &ev.calculation.rule_set, &ev.calculation.edition, &digest, acceptable, &files);
     Ok(Package { stem, digest, markdown, files, manifest, acceptable: ev.calculation.acceptable() })
 }
 

@@ -108,32 +108,10 @@ pub fn statement_text(manifest: &Manifest, role: &str, signer: &str, date: &str)
     out
 }
 
-/// Checks a `YYYY-MM-DD` date (real month and day, leap years included).
+/// Checks a `YYYY-MM-DD` date (real month and day, leap years included);
+/// the one definition is the case file's.
 pub fn valid_date(s: &str) -> bool {
-    let b = s.as_bytes();
-    if b.len() != 10 || b[4] != b'-' || b[7] != b'-' {
-        return false;
-    }
-    let num = |r: std::ops::Range<usize>| -> Option<u32> {
-        let part = &s[r];
-        if part.bytes().all(|c| c.is_ascii_digit()) {
-            part.parse().ok()
-        } else {
-            None
-        }
-    };
-    let (Some(y), Some(m), Some(d)) = (num(0..4), num(5..7), num(8..10)) else {
-        return false;
-    };
-    let leap = (y % 4 == 0 && y % 100 != 0) || y % 400 == 0;
-    let days = match m {
-        1 | 3 | 5 | 7 | 8 | 10 | 12 => 31,
-        4 | 6 | 9 | 11 => 30,
-        2 if leap => 29,
-        2 => 28,
-        _ => return false,
-    };
-    (1..=days).contains(&d)
+    crate::model::valid_iso_date(s)
 }
 
 /// Finds the manifest to work on in a package directory. With several

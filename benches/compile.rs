@@ -3,8 +3,10 @@
 //! package; targets on a 2-core machine: under 20 ms per package, 1,000
 //! packages under 10 s.
 
+use knuckle::geometry::deviation;
 use knuckle::package::{self, Options};
 use knuckle::pipeline::evaluate;
+use knuckle::render::pdf::{markdown_to_pdf, Paper, PdfMetadata, PdfOptions};
 use knuckle::render::templates::TemplateSet;
 use rayon::prelude::*;
 use std::time::Instant;
@@ -31,20 +33,70 @@ fn main() {
     let per = t.elapsed().as_secs_f64() * 1e3 / n as f64;
     println!("single package (SI example, MD+PDF+JSON): {per:.2} ms per package ({} bytes)", bytes / n);
 
-    // Where the time goes: evaluation, Markdown only, and the whole package.
-    let t = Instant::now();
-    for _ in 0..n {
-        evaluate("v310.toml", &source).expect("case evaluates");
-    }
-    println!("  evaluate only: {:.2} ms", t.elapsed().as_secs_f64() * 1e3 / n as f64);
+    // Where the time goes, stage by stage, each averaged over `n` runs.
+    let mean_ms = |f: &mut dyn FnMut()| {
+        let t = Instant::now();
+        for _ in 0..n {
+            f();
+        }
+        t.elapsed().as_secs_f64() * 1e3 / n as f64
+    };
     let ev = evaluate("v310.toml", &source).expect("case evaluates");
-    let md_only = Options { formats: package::Formats { md: true, pdf: false, json: true }, ..Options::default() };
-    let t = Instant::now();
-    for _ in 0..n {
-        let additions = knuckle::cli::compile::additions_for(&ev);
-        package::compile(&ev, &templates, &additions, &md_only).expect("package compiles");
+    let ms = mean_ms(&mut || {
+        evaluate("v310.toml", &source).expect("case evaluates");
+    });
+    println!("  evaluate (rules, head geometry): {ms:.2} ms");
+    let mut heads = Vec::new();
+    for c in &ev.calculation.components {
+        if let Some(g) = &c.geometry {
+            if let (Ok(p), Some(r)) = (g.profile(), g.reference()) {
+                heads.push((p, r));
+            }
+        }
     }
-    println!("  geometry + Markdown + JSON (no PDF): {:.2} ms", t.elapsed().as_secs_f64() * 1e3 / n as f64);
+    let ms = mean_ms(&mut || {
+        for (p, r) in &heads {
+            std::hint::black_box(deviation(p, r));
+        }
+    });
+    println!("    of which shape deviation search ({} heads): {ms:.2} ms", heads.len());
+    let additions = knuckle::cli::compile::additions_for(&ev);
+    let ms = mean_ms(&mut || {
+        std::hint::black_box(knuckle::cli::compile::additions_for(&ev));
+    });
+    println!("  head sheets (profile drawings and SVG): {ms:.2} ms");
+    let md_only = Options { formats: package::Formats { md: true, pdf: false, json: true }, ..Options::default() };
+    let ms = mean_ms(&mut || {
+        package::compile(&ev, &templates, &additions, &md_only).expect("package compiles");
+    });
+    println!("  context, templates, Markdown and JSON: {ms:.2} ms");
+    let pkg = package::compile(&ev, &templates, &additions, &md_only).expect("package compiles");
+    let opts = PdfOptions {
+        paper: Paper::A4,
+        header_left: "DEMO-V310-CALC-001  bench".into(),
+        header_right: "Revision B".into(),
+        footer_left: format!("Digest {}", &pkg.digest[..12]),
+        metadata: PdfMetadata {
+            title: "bench".into(),
+            author: "bench".into(),
+            subject: "bench".into(),
+            keywords: vec![],
+            date: "2024-01-01".into(),
+        },
+        document_id: pkg.digest.clone(),
+    };
+    let ms = mean_ms(&mut || {
+        std::hint::black_box(markdown_to_pdf(&pkg.markdown, &additions.figures, &opts).expect("pdf"));
+    });
+    println!("  PDF from the Markdown: {ms:.2} ms");
+    // `KNUCKLE_BENCH_PDF_LOOP=N` repeats only the PDF stage N more times and
+    // stops, so that a sampling profiler sees nothing else.
+    if let Some(loops) = std::env::var("KNUCKLE_BENCH_PDF_LOOP").ok().and_then(|v| v.parse::<usize>().ok()) {
+        for _ in 0..loops {
+            std::hint::black_box(markdown_to_pdf(&pkg.markdown, &additions.figures, &opts).expect("pdf"));
+        }
+        return;
+    }
 
     let cases: Vec<String> = (0..1000)
         .map(|i| {

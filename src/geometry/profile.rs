@@ -11,6 +11,7 @@ use super::numeric::brent_root;
 use super::{finite, invalid, length, GeometryError, HeadShape, HeadSpec};
 use serde::Serialize;
 use std::f64::consts::FRAC_PI_2;
+use std::sync::OnceLock;
 
 /// What part of the head a segment is.
 #[derive(Debug, Clone, Copy, PartialEq, Eq, Serialize)]
@@ -172,6 +173,24 @@ impl Segment {
     }
 }
 
+/// Panels of the quarter ellipse searched for the nearest point.
+const PANELS: usize = 128;
+
+/// (sin ψ, cos ψ) at the panel ends ψ = (π/2)·i/128, computed once per
+/// process: the nearest-point search is run for every sample of a shape
+/// deviation, and the sines and cosines of the panel ends dominated its cost.
+fn panel_ends() -> &'static [(f64, f64); PANELS + 1] {
+    static TABLE: OnceLock<[(f64, f64); PANELS + 1]> = OnceLock::new();
+    TABLE.get_or_init(|| {
+        let mut t = [(0.0, 0.0); PANELS + 1];
+        for (i, slot) in t.iter_mut().enumerate() {
+            let psi = FRAC_PI_2 * i as f64 / PANELS as f64;
+            *slot = psi.sin_cos();
+        }
+        t
+    })
+}
+
 /// Nearest point of the quarter ellipse (a sin ψ, b cos ψ) to p. The squared
 /// distance g(ψ) can have two local minima for points near the axis inside a
 /// flat ellipse, so the quarter is sampled in 128 panels and every panel in
@@ -183,17 +202,20 @@ fn nearest_on_ellipse(a: f64, b: f64, p: (f64, f64)) -> (f64, f64) {
         let (s, c) = psi.sin_cos();
         -((p.0 - a * s) * a * c - (p.1 - b * c) * b * s)
     };
-    const PANELS: usize = 128;
+    // g' at a panel end from the tabulated sine and cosine: the same numbers
+    // as `dg(hi)` (the same angle, the same sin_cos), without the trigonometry.
+    let dg_at = |(s, c): (f64, f64)| -((p.0 - a * s) * a * c - (p.1 - b * c) * b * s);
+    let table = panel_ends();
     let mut best = (0.0, g(0.0));
     let gend = g(FRAC_PI_2);
     if gend < best.1 {
         best = (FRAC_PI_2, gend);
     }
-    let mut prev = dg(0.0);
-    for i in 1..=PANELS {
+    let mut prev = dg_at(table[0]);
+    for (i, &end) in table.iter().enumerate().skip(1) {
         let lo = FRAC_PI_2 * (i - 1) as f64 / PANELS as f64;
         let hi = FRAC_PI_2 * i as f64 / PANELS as f64;
-        let cur = dg(hi);
+        let cur = dg_at(end);
         if prev < 0.0 && cur >= 0.0 {
             let psi = brent_root(dg, lo, hi, 1e-15);
             let v = g(psi);

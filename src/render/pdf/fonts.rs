@@ -107,6 +107,9 @@ pub struct FaceMetrics {
     /// Advance widths of the printable ASCII range, looked up on every glyph of
     /// body text, so they are kept in a flat array instead of two tree lookups.
     ascii: [u16; 128],
+    /// Whether the face has a glyph for each ASCII character, asked for every
+    /// character of every string before it is measured.
+    ascii_glyph: [bool; 128],
     /// Font units per em, for scaling advances to points.
     units_per_em: f32,
 }
@@ -120,15 +123,21 @@ impl FaceMetrics {
             return Err("the embedded face declares zero units per em".to_string());
         }
         let mut ascii = [0u16; 128];
-        for (code, slot) in ascii.iter_mut().enumerate() {
-            *slot = font.lookup_glyph_index(code as u32).and_then(|gid| font.get_glyph_width(gid)).unwrap_or(0);
+        let mut ascii_glyph = [false; 128];
+        for code in 0..128 {
+            let gid = font.lookup_glyph_index(code as u32);
+            ascii[code] = gid.and_then(|gid| font.get_glyph_width(gid)).unwrap_or(0);
+            ascii_glyph[code] = gid.is_some_and(|gid| gid != 0);
         }
         let units_per_em = f32::from(font.units_per_em);
-        Ok(FaceMetrics { font, ascii, units_per_em })
+        Ok(FaceMetrics { font, ascii, ascii_glyph, units_per_em })
     }
 
     /// Whether the face has a glyph for the character.
     pub fn has_glyph(&self, ch: char) -> bool {
+        if (ch as u32) < 128 {
+            return self.ascii_glyph[ch as usize];
+        }
         self.font.lookup_glyph_index(ch as u32).is_some_and(|gid| gid != 0)
     }
 
@@ -229,21 +238,39 @@ pub fn printable(faces: &[FaceMetrics], face: Face, text: &str) -> String {
     out
 }
 
-/// Characters used per face, collected while painting, to build the subsets.
+/// Characters used per face, collected before painting, to build the subsets.
+///
+/// Besides the set, the position of each character's last use is kept: a PDF
+/// writer that derives a subset's character map from the text shown records,
+/// for a glyph reached from two characters, the one shown last, so replaying
+/// the characters in order of last use gives it the same map.
 #[derive(Default)]
 pub struct UsedChars {
-    per_face: BTreeMap<Face, BTreeSet<char>>,
+    per_face: BTreeMap<Face, BTreeMap<char, u64>>,
+    counter: u64,
 }
 
 impl UsedChars {
     /// Records the characters of a string drawn in `face`.
     pub fn add(&mut self, face: Face, text: &str) {
-        self.per_face.entry(face).or_default().extend(text.chars());
+        let chars = self.per_face.entry(face).or_default();
+        for ch in text.chars() {
+            self.counter += 1;
+            chars.insert(ch, self.counter);
+        }
     }
 
     /// The faces that were used, with their characters, in a fixed order.
-    pub fn iter(&self) -> impl Iterator<Item = (Face, &BTreeSet<char>)> {
-        self.per_face.iter().map(|(f, c)| (*f, c))
+    pub fn iter(&self) -> impl Iterator<Item = (Face, BTreeSet<char>)> + '_ {
+        self.per_face.iter().map(|(f, c)| (*f, c.keys().copied().collect()))
+    }
+
+    /// The characters used in `face`, each once, ordered by their last use.
+    pub fn in_order_of_last_use(&self, face: Face) -> String {
+        let mut chars: Vec<(u64, char)> =
+            self.per_face.get(&face).map(|m| m.iter().map(|(c, n)| (*n, *c)).collect()).unwrap_or_default();
+        chars.sort_unstable();
+        chars.into_iter().map(|(_, c)| c).collect()
     }
 }
 

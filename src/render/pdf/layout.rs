@@ -7,10 +7,13 @@
 //! Running headers and footers are not laid out here: the page count is only
 //! known once the flow is finished, so the painter adds them afterwards.
 
+use std::cell::RefCell;
 use std::collections::BTreeMap;
+use std::rc::Rc;
 
 use super::blocks::{Block, Span};
 use super::fonts::{metrics, printable, Face, FaceMetrics};
+use super::table::Measured;
 use super::text::{wrap, wrap_code, BaseStyle, TextLine};
 use super::{Paper, PdfError};
 use crate::drawing::Drawing;
@@ -148,6 +151,8 @@ pub struct Layouter<'a> {
     frames: Vec<Frame>,
     marker: Option<Marker>,
     list_depth: usize,
+    /// Tables measured so far, by the table's address and the width in bits.
+    pub(super) measured: RefCell<BTreeMap<(usize, u32), Rc<Measured>>>,
 }
 
 /// Space before a block, pt, when it follows another block.
@@ -193,6 +198,7 @@ impl<'a> Layouter<'a> {
             frames: Vec::new(),
             marker: None,
             list_depth: 0,
+            measured: RefCell::new(BTreeMap::new()),
         }
     }
 

@@ -32,10 +32,11 @@ use std::collections::BTreeMap;
 use std::fmt;
 
 use lopdf::{Object, StringFormat};
-use printpdf::{FontId, Mm, PdfDocument, PdfFont, PdfPage, PdfSaveOptions};
+use printpdf::{FontId, Mm, Op, PdfDocument, PdfFont, PdfFontHandle, PdfPage, PdfSaveOptions, Pt, TextItem};
 use sha2::{Digest, Sha256};
 
 use crate::drawing::Drawing;
+use fonts::Face;
 use layout::{Geometry, Layouter};
 
 /// Paper size of the printed package.
@@ -256,6 +257,28 @@ fn compress_streams(doc: &mut lopdf::Document) -> Result<(), PdfError> {
     Ok(())
 }
 
+/// Puts the content stream of each page in place of the placeholder that
+/// printpdf wrote, page by page in document order.
+fn set_contents(doc: &mut lopdf::Document, contents: Vec<Vec<u8>>) -> Result<(), PdfError> {
+    let missing = |what: &str| PdfError::Write { message: format!("the document printpdf built lacks {what}") };
+    let pages: Vec<lopdf::ObjectId> = doc.get_pages().into_values().collect();
+    if pages.len() != contents.len() {
+        return Err(missing("one page per laid-out page"));
+    }
+    for (page, content) in pages.into_iter().zip(contents) {
+        let id = doc
+            .get_dictionary(page)
+            .and_then(|d| d.get(b"Contents"))
+            .and_then(Object::as_reference)
+            .map_err(|_| missing("a content stream on every page"))?;
+        match doc.objects.get_mut(&id) {
+            Some(Object::Stream(stream)) => stream.set_content(content),
+            _ => return Err(missing("a content stream on every page")),
+        }
+    }
+    Ok(())
+}
+
 /// Lays out `markdown` (CommonMark with GFM tables) as a paged PDF.
 ///
 /// Figures are written `![caption](name)` and looked up by `name` in
@@ -275,17 +298,33 @@ pub fn markdown_to_pdf(
     let mut flow = Layouter::new(faces, figures, geo);
     flow.blocks(&blocks, geo.left, geo.text_width())?;
     let pages = flow.finish();
-    let (page_ops, used) = paint::paint(faces, &pages, &geo, options);
+    let (running, used) = paint::prepare(faces, &pages, &geo, options);
 
     let mut doc = PdfDocument::new(&options.metadata.title);
+    let mut glyphs: Vec<paint::GlyphMap> = Face::ALL.iter().map(|_| paint::GlyphMap::default()).collect();
+    // printpdf embeds a font only when a page shows text in it, and derives
+    // the font's widths and character map from that text. The first page
+    // handed to it therefore shows every character used, per face, once and
+    // in order of last use, which yields exactly the tables the whole text
+    // would; the real content streams, written directly by `paint`, replace
+    // these placeholder operations below.
+    let mut usage_ops = vec![Op::StartTextSection];
     for (face, chars) in used.iter() {
-        let font = fonts::subset(faces, face, chars)?;
+        let font = fonts::subset(faces, face, &chars)?;
+        glyphs[face.index()] = paint::GlyphMap::new(&font, &chars);
         // Resource names are fixed per face: printpdf's own ids come from a
         // counter and would differ between two calls in one process.
-        doc.resources.fonts.map.insert(FontId(face.resource_name().to_string()), PdfFont::new(font));
+        let id = FontId(face.resource_name().to_string());
+        usage_ops.push(Op::SetFont { font: PdfFontHandle::External(id.clone()), size: Pt(10.0) });
+        usage_ops.push(Op::ShowText { items: vec![TextItem::Text(used.in_order_of_last_use(face))] });
+        doc.resources.fonts.map.insert(id, PdfFont::new(font));
     }
+    usage_ops.push(Op::EndTextSection);
+    let contents = paint::paint(&pages, &running, &geo, &glyphs);
     let (w, h) = options.paper.size_mm();
-    doc.pages = page_ops.into_iter().map(|ops| PdfPage::new(Mm(w), Mm(h), ops)).collect();
+    doc.pages = (0..pages.len())
+        .map(|i| PdfPage::new(Mm(w), Mm(h), if i == 0 { std::mem::take(&mut usage_ops) } else { Vec::new() }))
+        .collect();
 
     let save = PdfSaveOptions {
         optimize: false,
@@ -296,6 +335,7 @@ pub fn markdown_to_pdf(
     };
     let mut warnings = Vec::new();
     let mut lo = doc.to_lopdf_document(&save, &mut warnings);
+    set_contents(&mut lo, contents)?;
     finish_document(&mut lo, options)?;
     compress_streams(&mut lo)?;
     let mut out = Vec::new();

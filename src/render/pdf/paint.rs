@@ -1,10 +1,10 @@
 //! Turning laid-out pages into printpdf operations, with the running header
 //! and footer that need the final page count.
 
-use printpdf::{
-    Color, FontId, Greyscale, Line, LineDashPattern, LinePoint, Op, PaintMode, PdfFontHandle, Point, Pt, Rect,
-    TextItem, TextMatrix,
-};
+use std::collections::{BTreeMap, BTreeSet};
+use std::fmt::Write;
+
+use printpdf::ParsedFont;
 
 use super::fonts::{metrics, printable, Face, FaceMetrics, UsedChars};
 use super::layout::{Geometry, Item, MM};
@@ -14,10 +14,6 @@ use super::PdfOptions;
 const RUNNING_SIZE: f32 = 7.8;
 /// Grey of the running header and footer text and rules.
 const RUNNING_GREY: f32 = 0.25;
-
-fn grey(level: f32) -> Color {
-    Color::Greyscale(Greyscale::new(level.clamp(0.0, 1.0), None))
-}
 
 /// Shortens `text` with an ellipsis until it is at most `width` points wide.
 fn fit(faces: &[FaceMetrics], face: Face, size: f32, text: &str, width: f32) -> String {
@@ -78,113 +74,222 @@ struct State {
     dash: Option<Option<(f32, f32)>>,
 }
 
-fn point(geo: &Geometry, (x, y): (f32, f32)) -> LinePoint {
-    LinePoint { p: Point { x: Pt(x), y: Pt(geo.height - y) }, bezier: false }
+/// The glyph numbers of one font subset for the characters a document draws.
+pub struct GlyphMap {
+    ascii: [u16; 128],
+    other: BTreeMap<char, u16>,
 }
 
-/// Appends the operations for one item, recording the characters used.
-fn paint_item(item: &Item, geo: &Geometry, header_grey: bool, st: &mut State, ops: &mut Vec<Op>, used: &mut UsedChars) {
+impl Default for GlyphMap {
+    fn default() -> Self {
+        GlyphMap { ascii: [0; 128], other: BTreeMap::new() }
+    }
+}
+
+impl GlyphMap {
+    /// The map of `chars` in `font`; a character the font lacks maps to glyph 0
+    /// (`.notdef`), as a PDF writer must show it.
+    pub fn new(font: &ParsedFont, chars: &BTreeSet<char>) -> GlyphMap {
+        let mut map = GlyphMap::default();
+        for &c in chars {
+            let gid = font.lookup_glyph_index(c as u32).unwrap_or(0);
+            if (c as u32) < 128 {
+                map.ascii[c as usize] = gid;
+            } else {
+                map.other.insert(c, gid);
+            }
+        }
+        map
+    }
+
+    fn gid(&self, c: char) -> u16 {
+        if (c as u32) < 128 {
+            self.ascii[c as usize]
+        } else {
+            self.other.get(&c).copied().unwrap_or(0)
+        }
+    }
+}
+
+/// A content stream being written. The operators and the number format are
+/// those of ISO 32000-1, 8 and 9: operands separated by single spaces before
+/// the operator, one operation per line, reals in their shortest exact decimal
+/// form, and text as hexadecimal two-byte glyph codes (Identity-H encoding).
+/// Writing the bytes directly instead of building an operation list for a
+/// generic writer avoids an allocation per operand.
+struct Content {
+    out: String,
+}
+
+impl Content {
+    fn op(&mut self, operator: &str) {
+        if !self.out.is_empty() {
+            self.out.push('\n');
+        }
+        self.out.push_str(operator);
+    }
+
+    /// Starts an operation whose operands follow; finish it with `end`.
+    fn begin(&mut self) {
+        if !self.out.is_empty() {
+            self.out.push('\n');
+        }
+    }
+
+    fn real(&mut self, v: f32) {
+        // Formatting into a String cannot fail.
+        let _ = write!(self.out, "{v} ");
+    }
+
+    fn end(&mut self, operator: &str) {
+        self.out.push_str(operator);
+    }
+
+    fn reals(&mut self, values: &[f32], operator: &str) {
+        self.begin();
+        for &v in values {
+            self.real(v);
+        }
+        self.end(operator);
+    }
+}
+
+const HEX: &[u8; 16] = b"0123456789ABCDEF";
+
+/// Appends the operations for one item.
+fn paint_item(item: &Item, geo: &Geometry, header_grey: bool, st: &mut State, c: &mut Content, glyphs: &[GlyphMap]) {
     let text_grey = if header_grey { RUNNING_GREY } else { 0.0 };
     match item {
         Item::Text { x, y, face, size, text } => {
             if !st.in_text {
-                ops.push(Op::StartTextSection);
+                c.op("BT");
                 st.in_text = true;
             }
             if st.fill != Some(text_grey) {
-                ops.push(Op::SetFillColor { col: grey(text_grey) });
+                c.reals(&[text_grey.clamp(0.0, 1.0)], "g");
                 st.fill = Some(text_grey);
             }
             if st.font != Some((*face, *size)) {
-                ops.push(Op::SetFont {
-                    font: PdfFontHandle::External(FontId(face.resource_name().to_string())),
-                    size: Pt(*size),
-                });
+                c.begin();
+                c.out.push('/');
+                c.out.push_str(face.resource_name());
+                c.out.push(' ');
+                c.real(*size);
+                c.end("Tf");
                 st.font = Some((*face, *size));
             }
-            ops.push(Op::SetTextMatrix { matrix: TextMatrix::Translate(Pt(*x), Pt(geo.height - *y)) });
-            ops.push(Op::ShowText { items: vec![TextItem::Text(text.clone())] });
-            used.add(*face, text);
+            c.reals(&[1.0, 0.0, 0.0, 1.0, *x, geo.height - *y], "Tm");
+            c.begin();
+            c.out.push('<');
+            let map = &glyphs[face.index()];
+            for ch in text.chars() {
+                for b in map.gid(ch).to_be_bytes() {
+                    c.out.push(char::from(HEX[usize::from(b >> 4)]));
+                    c.out.push(char::from(HEX[usize::from(b & 15)]));
+                }
+            }
+            c.out.push_str("> ");
+            c.end("Tj");
         }
         Item::Stroke { points, closed, width, grey: g, dash } => {
-            end_text(st, ops);
+            end_text(st, c);
             if st.stroke != Some(*g) {
-                ops.push(Op::SetOutlineColor { col: grey(*g) });
+                c.reals(&[g.clamp(0.0, 1.0)], "G");
                 st.stroke = Some(*g);
             }
             if st.width != Some(*width) {
-                ops.push(Op::SetOutlineThickness { pt: Pt(*width) });
+                c.reals(&[*width], "w");
                 st.width = Some(*width);
             }
             if st.dash != Some(*dash) {
-                let pattern = match dash {
-                    Some((a, b)) => LineDashPattern::new(0.0, &[*a, *b]),
-                    None => LineDashPattern::solid(),
-                };
-                ops.push(Op::SetLineDashPattern { dash: pattern });
+                c.begin();
+                match dash {
+                    Some((a, b)) => {
+                        let _ = write!(c.out, "[{a} {b}] ");
+                    }
+                    None => c.out.push_str("[] "),
+                }
+                c.real(0.0);
+                c.end("d");
                 st.dash = Some(*dash);
             }
-            ops.push(Op::DrawLine {
-                line: Line { points: points.iter().map(|p| point(geo, *p)).collect(), is_closed: *closed },
-            });
+            let Some(first) = points.first() else { return };
+            c.reals(&[first.0, geo.height - first.1], "m");
+            for p in &points[1..] {
+                c.reals(&[p.0, geo.height - p.1], "l");
+            }
+            if *closed {
+                c.op("h");
+            }
+            c.op("S");
         }
         Item::Fill { x, y, w, h, grey: g } => {
             if *h <= 0.0 || *w <= 0.0 {
                 return;
             }
-            end_text(st, ops);
+            end_text(st, c);
             if st.fill != Some(*g) {
-                ops.push(Op::SetFillColor { col: grey(*g) });
+                c.reals(&[g.clamp(0.0, 1.0)], "g");
                 st.fill = Some(*g);
             }
-            ops.push(Op::DrawRectangle {
-                rectangle: Rect {
-                    x: Pt(*x),
-                    y: Pt(geo.height - *y - *h),
-                    width: Pt(*w),
-                    height: Pt(*h),
-                    mode: Some(PaintMode::Fill),
-                    winding_order: None,
-                },
-            });
+            c.reals(&[*x, geo.height - *y - *h, *w, *h], "re");
+            c.op("f");
         }
     }
 }
 
-fn end_text(st: &mut State, ops: &mut Vec<Op>) {
+fn end_text(st: &mut State, c: &mut Content) {
     if st.in_text {
-        ops.push(Op::EndTextSection);
+        c.op("ET");
         st.in_text = false;
     }
 }
 
-/// The operations of every page, header and footer included, and the
-/// characters each face must provide.
-pub fn paint(
+/// The running header and footer of every page, and the characters each face
+/// must provide for them and for the pages' own items, recorded in drawing order.
+pub fn prepare(
     faces: &[FaceMetrics],
     pages: &[Vec<Item>],
     geo: &Geometry,
     options: &PdfOptions,
-) -> (Vec<Vec<Op>>, UsedChars) {
+) -> (Vec<Vec<Item>>, UsedChars) {
     let mut used = UsedChars::default();
     let count = pages.len();
-    let out = pages
+    let running = pages
         .iter()
         .enumerate()
         .map(|(i, items)| {
-            let mut ops = Vec::new();
-            let mut st = State::default();
-            for item in &running(faces, geo, options, i + 1, count) {
-                paint_item(item, geo, true, &mut st, &mut ops, &mut used);
+            let head = running(faces, geo, options, i + 1, count);
+            for item in head.iter().chain(items) {
+                if let Item::Text { face, text, .. } = item {
+                    used.add(*face, text);
+                }
             }
-            for item in items {
-                paint_item(item, geo, false, &mut st, &mut ops, &mut used);
-            }
-            end_text(&mut st, &mut ops);
-            ops
+            head
         })
         .collect();
-    (out, used)
+    (running, used)
+}
+
+/// The content stream of every page, header and footer first, with text coded
+/// as the glyph numbers of the subsets in `glyphs` (indexed by [`Face::index`]).
+pub fn paint(pages: &[Vec<Item>], running: &[Vec<Item>], geo: &Geometry, glyphs: &[GlyphMap]) -> Vec<Vec<u8>> {
+    pages
+        .iter()
+        .zip(running)
+        .map(|(items, head)| {
+            let mut c = Content { out: String::new() };
+            let mut st = State::default();
+            for item in head {
+                paint_item(item, geo, true, &mut st, &mut c, glyphs);
+            }
+            for item in items {
+                paint_item(item, geo, false, &mut st, &mut c, glyphs);
+            }
+            end_text(&mut st, &mut c);
+            c.out.into_bytes()
+        })
+        .collect()
 }
 
 #[cfg(test)]

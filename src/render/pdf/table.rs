@@ -11,7 +11,9 @@
 
 use super::blocks::{Align, Span, Table};
 use super::layout::{Item, Layouter, BASELINE};
-use super::text::{min_max_width, wrap, BaseStyle, TextLine};
+use std::rc::Rc;
+
+use super::text::{min_max_width_of, words, wrap_words, BaseStyle, TextLine, Word};
 
 /// Text size in tables, pt.
 const SIZE: f32 = 8.3;
@@ -39,7 +41,7 @@ struct Row {
 }
 
 /// A table measured for a given width.
-struct Measured {
+pub struct Measured {
     widths: Vec<f32>,
     aligns: Vec<Align>,
     head: Row,
@@ -119,18 +121,34 @@ fn column_widths(min: &[f32], max: &[f32], avail: f32) -> Vec<f32> {
 }
 
 impl Layouter<'_> {
-    fn measure(&self, t: &Table, width: f32) -> Measured {
+    /// The table measured for `width`. A heading measures the table that
+    /// follows it to keep the two together, and the table measures itself
+    /// again when it is drawn; the result is kept per table and width so that
+    /// the work is done once.
+    fn measure(&self, t: &Table, width: f32) -> Rc<Measured> {
+        let key = (t as *const Table as usize, width.to_bits());
+        if let Some(m) = self.measured.borrow().get(&key) {
+            return Rc::clone(m);
+        }
+        let m = Rc::new(self.measure_table(t, width));
+        self.measured.borrow_mut().insert(key, Rc::clone(&m));
+        m
+    }
+
+    fn measure_table(&self, t: &Table, width: f32) -> Measured {
         let cols = t.columns();
-        let empty: Vec<Span> = Vec::new();
-        let cell = |row: &[Vec<Span>], c: usize| -> Vec<Span> { row.get(c).cloned().unwrap_or_else(|| empty.clone()) };
+        // Every cell is split into words once, for measuring and for breaking.
+        let split = |row: &[Vec<Span>], bold: bool| -> Vec<Vec<Word>> {
+            (0..cols).map(|c| words(self.faces, row.get(c).map_or(&[][..], Vec::as_slice), style(bold))).collect()
+        };
+        let head = split(&t.head, true);
+        let rows: Vec<Vec<Vec<Word>>> = t.rows.iter().map(|r| split(r, false)).collect();
         let mut min = vec![2.0 * PAD_X; cols];
         let mut max = vec![2.0 * PAD_X; cols];
         for c in 0..cols {
-            let head = min_max_width(self.faces, &cell(&t.head, c), style(true));
-            let mut lo = head.0;
-            let mut hi = head.1;
-            for row in &t.rows {
-                let (a, b) = min_max_width(self.faces, &cell(row, c), style(false));
+            let (mut lo, mut hi) = min_max_width_of(self.faces, &head[c], style(true));
+            for row in &rows {
+                let (a, b) = min_max_width_of(self.faces, &row[c], style(false));
                 lo = lo.max(a);
                 hi = hi.max(b);
             }
@@ -138,19 +156,14 @@ impl Layouter<'_> {
             max[c] += hi;
         }
         let widths = column_widths(&min, &max, width);
-        let lay_row = |row: &[Vec<Span>], bold: bool| -> Row {
+        let lay_row = |row: &[Vec<Word>]| -> Row {
             let cells: Vec<Vec<TextLine>> =
-                (0..cols).map(|c| wrap(self.faces, &cell(row, c), style(bold), widths[c] - 2.0 * PAD_X)).collect();
+                row.iter().enumerate().map(|(c, w)| wrap_words(self.faces, w, widths[c] - 2.0 * PAD_X)).collect();
             let lines = cells.iter().map(Vec::len).max().unwrap_or(1);
             Row { height: lines as f32 * LINE + 2.0 * PAD_Y, cells }
         };
         let aligns = (0..cols).map(|c| t.aligns.get(c).copied().unwrap_or(Align::Left)).collect();
-        Measured {
-            head: lay_row(&t.head, true),
-            rows: t.rows.iter().map(|r| lay_row(r, false)).collect(),
-            widths,
-            aligns,
-        }
+        Measured { head: lay_row(&head), rows: rows.iter().map(|r| lay_row(r)).collect(), widths, aligns }
     }
 
     /// Height of the head and first row of a table, which a heading keeps with it.
@@ -205,18 +218,19 @@ impl Layouter<'_> {
             return;
         }
         let m = self.measure(t, width);
+        let m = &*m;
         let width: f32 = m.widths.iter().sum();
         let first = m.rows.first().map_or(0.0, |r| r.height);
         self.ensure(m.head.height + first.min(self.body_height() / 2.0));
         self.take_marker(self.y + PAD_Y + LINE * BASELINE);
-        self.draw_head(&m, x, width);
+        self.draw_head(m, x, width);
         let n = m.rows.len();
         for (i, row) in m.rows.iter().enumerate() {
             if !self.fits(row.height) {
                 if m.head.height + row.height <= self.body_height() {
-                    self.continue_table(&m, x, width);
+                    self.continue_table(m, x, width);
                 } else {
-                    self.tall_row(&m, row, x, width);
+                    self.tall_row(m, row, x, width);
                     if i + 1 < n {
                         self.hairline(x, width);
                     }
@@ -224,7 +238,7 @@ impl Layouter<'_> {
                 }
             }
             let lines = row.cells.iter().map(Vec::len).max().unwrap_or(0);
-            self.draw_row_lines(&m, row, x, 0, lines);
+            self.draw_row_lines(m, row, x, 0, lines);
             self.y += row.height;
             if i + 1 < n {
                 self.hairline(x, width);

@@ -85,7 +85,7 @@ struct Piece {
 
 /// A word: text between spaces, possibly in several styles (`**t**_min`).
 #[derive(Debug, Clone, Default)]
-struct Word {
+pub struct Word {
     pieces: Vec<Piece>,
     width: f32,
     space_before: bool,
@@ -101,7 +101,9 @@ fn face_and_size(span: &Span, base: BaseStyle) -> (Face, f32) {
 }
 
 /// Splits spans into words, remembering where spaces and hard breaks were.
-fn words(faces: &[FaceMetrics], spans: &[Span], base: BaseStyle) -> Vec<Word> {
+/// Table cells are measured and then broken from the same words, so the
+/// split is done once and handed to [`min_max_width_of`] and [`wrap_words`].
+pub fn words(faces: &[FaceMetrics], spans: &[Span], base: BaseStyle) -> Vec<Word> {
     let mut out = Vec::new();
     let mut word = Word::default();
     let mut space = false;
@@ -151,13 +153,18 @@ fn words(faces: &[FaceMetrics], spans: &[Span], base: BaseStyle) -> Vec<Word> {
 /// Always returns at least one line (empty for empty input), so every caller
 /// can rely on a line height being taken.
 pub fn wrap(faces: &[FaceMetrics], spans: &[Span], base: BaseStyle, width: f32) -> Vec<TextLine> {
+    wrap_words(faces, &words(faces, spans, base), width)
+}
+
+/// [`wrap`] for text already split by [`words`].
+pub fn wrap_words(faces: &[FaceMetrics], words: &[Word], width: f32) -> Vec<TextLine> {
     // A non-positive width would break after every character; one character
     // per line is the most that can be done, so treat it as that.
     let width = width.max(1.0);
     let mut lines = Vec::new();
     let mut cur = TextLine::default();
     let slack = 0.01;
-    for word in words(faces, spans, base) {
+    for word in words {
         if word.break_before {
             lines.push(std::mem::take(&mut cur));
         }
@@ -194,16 +201,16 @@ pub fn wrap(faces: &[FaceMetrics], spans: &[Span], base: BaseStyle, width: f32) 
     lines
 }
 
-/// The narrowest and the natural width of a run of spans: the widest word, and
-/// the whole text on one line (each hard-broken line measured separately).
-/// Used to size table columns.
-pub fn min_max_width(faces: &[FaceMetrics], spans: &[Span], base: BaseStyle) -> (f32, f32) {
+/// The narrowest and the natural width of a run of text split by [`words`]
+/// in style `base`: the widest word, and the whole text on one line (each
+/// hard-broken line measured separately). Used to size table columns.
+pub fn min_max_width_of(faces: &[FaceMetrics], words: &[Word], base: BaseStyle) -> (f32, f32) {
     let mut min: f32 = 0.0;
     let mut max: f32 = 0.0;
     let mut line: f32 = 0.0;
     let space = metrics(faces, Face::styled(base.bold, base.italic)).advance_em(' ') * base.size;
     let mut first = true;
-    for word in words(faces, spans, base) {
+    for word in words {
         if word.break_before {
             max = max.max(line);
             line = 0.0;
@@ -298,7 +305,7 @@ mod tests {
         let lines = wrap(faces, &[span("one"), span("\n"), span("two")], BODY, 500.0);
         assert_eq!(lines.len(), 2);
         assert_eq!(wrap(faces, &[], BODY, 100.0).len(), 1);
-        let (min, max) = min_max_width(faces, &[span("ab abcd")], BODY);
+        let (min, max) = min_max_width_of(faces, &words(faces, &[span("ab abcd")], BODY), BODY);
         assert!(min < max);
     }
 

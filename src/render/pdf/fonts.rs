@@ -8,7 +8,7 @@
 //! of a few dozen glyphs is a few kilobytes, the whole face several hundred.
 
 use std::collections::{BTreeMap, BTreeSet};
-use std::sync::OnceLock;
+use std::sync::{Mutex, OnceLock};
 
 use printpdf::ParsedFont;
 
@@ -189,7 +189,35 @@ pub fn metrics(faces: &[FaceMetrics], face: Face) -> &FaceMetrics {
 /// be added to a document. Glyphs are renumbered by the subsetter; the subset's
 /// own character map is what the PDF writer consults, so text drawn with the
 /// returned font maps to the new numbers.
+///
+/// Subsetting and re-parsing take a few milliseconds per face, and a batch of
+/// packages uses the same few character sets over and over, so the most
+/// recent subsets are kept per process. The subset depends only on the face
+/// and the characters, so a kept one is exactly what would be built again.
 pub fn subset(faces: &[FaceMetrics], face: Face, chars: &BTreeSet<char>) -> Result<ParsedFont, PdfError> {
+    type Kept = Vec<(Face, Vec<char>, ParsedFont)>;
+    static KEPT: Mutex<Kept> = Mutex::new(Vec::new());
+    const KEEP: usize = 16;
+    let key: Vec<char> = chars.iter().copied().collect();
+    // A poisoned lock only means another thread panicked while holding it;
+    // the list itself is always whole, so it is used as it is.
+    let found = {
+        let kept = KEPT.lock().unwrap_or_else(|e| e.into_inner());
+        kept.iter().find(|(f, c, _)| *f == face && *c == key).map(|(_, _, font)| font.clone())
+    };
+    if let Some(font) = found {
+        return Ok(font);
+    }
+    let font = build_subset(faces, face, chars)?;
+    let mut kept = KEPT.lock().unwrap_or_else(|e| e.into_inner());
+    if kept.len() >= KEEP {
+        kept.remove(0);
+    }
+    kept.push((face, key, font.clone()));
+    Ok(font)
+}
+
+fn build_subset(faces: &[FaceMetrics], face: Face, chars: &BTreeSet<char>) -> Result<ParsedFont, PdfError> {
     use allsorts::binary::read::ReadScope;
     use allsorts::font_data::FontData;
     use allsorts::subset::{CmapTarget, SubsetProfile};

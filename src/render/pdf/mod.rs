@@ -244,17 +244,54 @@ fn compress_streams(doc: &mut lopdf::Document) -> Result<(), PdfError> {
         if !stream.allows_compression || stream.dict.get(b"Filter").is_ok() {
             continue;
         }
-        let mut encoder = ZlibEncoder::new(Vec::new(), Compression::fast());
-        let deflated = encoder
-            .write_all(&stream.content)
-            .and_then(|()| encoder.finish())
-            .map_err(|e| PdfError::Write { message: format!("cannot compress a stream: {e}") })?;
+        let deflate = |content: &[u8]| {
+            let mut encoder = ZlibEncoder::new(Vec::new(), Compression::fast());
+            encoder
+                .write_all(content)
+                .and_then(|()| encoder.finish())
+                .map_err(|e| PdfError::Write { message: format!("cannot compress a stream: {e}") })
+        };
+        // Font programs (the streams with a /Length1) repeat from package to
+        // package, since the subsets do; their deflated form is kept.
+        let deflated = if stream.dict.has(b"Length1") {
+            deflate_font_program(&stream.content, deflate)?
+        } else {
+            deflate(&stream.content)?
+        };
         if deflated.len() < stream.content.len() {
             stream.dict.set("Filter", "FlateDecode");
             stream.set_content(deflated);
         }
     }
     Ok(())
+}
+
+/// The deflated form of a font program, from the few most recent ones kept
+/// per process or by `deflate`. Deflating is deterministic, so a kept result
+/// is the same bytes that deflating again would give.
+fn deflate_font_program(
+    program: &[u8],
+    deflate: impl Fn(&[u8]) -> Result<Vec<u8>, PdfError>,
+) -> Result<Vec<u8>, PdfError> {
+    type Kept = Vec<(Vec<u8>, Vec<u8>)>;
+    static KEPT: std::sync::Mutex<Kept> = std::sync::Mutex::new(Vec::new());
+    const KEEP: usize = 16;
+    // A poisoned lock only means another thread panicked while holding it;
+    // the list itself is always whole, so it is used as it is.
+    let found = {
+        let kept = KEPT.lock().unwrap_or_else(|e| e.into_inner());
+        kept.iter().find(|(p, _)| p.as_slice() == program).map(|(_, d)| d.clone())
+    };
+    if let Some(deflated) = found {
+        return Ok(deflated);
+    }
+    let deflated = deflate(program)?;
+    let mut kept = KEPT.lock().unwrap_or_else(|e| e.into_inner());
+    if kept.len() >= KEEP {
+        kept.remove(0);
+    }
+    kept.push((program.to_vec(), deflated.clone()));
+    Ok(deflated)
 }
 
 /// Puts the content stream of each page in place of the placeholder that

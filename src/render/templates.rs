@@ -5,6 +5,7 @@ use sha2::{Digest, Sha256};
 use std::collections::BTreeMap;
 use std::fmt;
 use std::path::Path;
+use std::sync::OnceLock;
 
 /// The entry template that includes the others.
 pub const ENTRY: &str = "package.md.tera";
@@ -24,10 +25,37 @@ pub const DEFAULTS: [(&str, &str); 8] = [
 /// A complete set of templates by file name.
 #[derive(Debug, Clone, PartialEq, Eq)]
 pub struct TemplateSet {
-    /// Template text by file name.
-    pub files: BTreeMap<String, String>,
+    /// Template text by file name (read-only after construction: the parsed
+    /// templates and their hashes are cached on first use).
+    files: BTreeMap<String, String>,
     /// Names that came from the user's folder.
     pub overridden: Vec<String>,
+    cache: Cache,
+}
+
+/// Parsed templates and their hashes, made once per set: parsing dominated
+/// the time of a compile before it was cached.
+#[derive(Default)]
+struct Cache {
+    parsed: OnceLock<Result<tera::Tera, TemplateError>>,
+    hashes: OnceLock<BTreeMap<String, String>>,
+}
+
+impl Clone for Cache {
+    fn clone(&self) -> Self {
+        Cache::default()
+    }
+}
+impl PartialEq for Cache {
+    fn eq(&self, _: &Cache) -> bool {
+        true
+    }
+}
+impl Eq for Cache {}
+impl fmt::Debug for Cache {
+    fn fmt(&self, f: &mut fmt::Formatter<'_>) -> fmt::Result {
+        f.write_str("Cache")
+    }
 }
 
 /// A template problem: which template, where, and what.
@@ -57,6 +85,7 @@ impl Default for TemplateSet {
         TemplateSet {
             files: DEFAULTS.iter().map(|(n, t)| (n.to_string(), t.to_string())).collect(),
             overridden: Vec::new(),
+            cache: Cache::default(),
         }
     }
 }
@@ -92,20 +121,38 @@ impl TemplateSet {
 
     /// SHA-256 of every template, by name (part of the package digest).
     pub fn hashes(&self) -> BTreeMap<String, String> {
-        self.files
-            .iter()
-            .map(|(n, t)| (n.clone(), crate::package::manifest::hex(&Sha256::digest(t.as_bytes()))))
-            .collect()
+        self.cache
+            .hashes
+            .get_or_init(|| {
+                self.files
+                    .iter()
+                    .map(|(n, t)| (n.clone(), crate::package::manifest::hex(&Sha256::digest(t.as_bytes()))))
+                    .collect()
+            })
+            .clone()
+    }
+
+    /// The template texts by file name.
+    pub fn files(&self) -> &BTreeMap<String, String> {
+        &self.files
     }
 
     /// Renders the entry template with a context.
     pub fn render(&self, context: &serde_json::Value) -> Result<String, TemplateError> {
-        let mut tera = tera::Tera::default();
-        // Templates are Markdown: no HTML escaping.
-        tera.autoescape_on(vec![]);
-        for (name, text) in &self.files {
-            tera.add_raw_template(name, text).map_err(|e| parse_error(name, text, &e))?;
-        }
+        let tera = self
+            .cache
+            .parsed
+            .get_or_init(|| {
+                let mut tera = tera::Tera::default();
+                // Templates are Markdown: no HTML escaping.
+                tera.autoescape_on(vec![]);
+                for (name, text) in &self.files {
+                    tera.add_raw_template(name, text).map_err(|e| parse_error(name, text, &e))?;
+                }
+                Ok(tera)
+            })
+            .as_ref()
+            .map_err(|e| e.clone())?;
         let ctx = tera::Context::from_value(context.clone()).map_err(|e| TemplateError {
             template: ENTRY.to_string(),
             line: None,

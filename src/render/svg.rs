@@ -13,13 +13,42 @@ const MM_PER_PT: f64 = 25.4 / 72.0;
 
 /// Formats a coordinate or length with three decimals, never as "-0.000".
 fn num(v: f64) -> String {
+    let mut s = String::with_capacity(12);
+    push_num(&mut s, v);
+    s
+}
+
+/// Appends `v` with three decimals. Written by integer arithmetic rather
+/// than float formatting: drawings have thousands of coordinates and this
+/// was most of the time of writing an SVG.
+fn push_num(out: &mut String, v: f64) {
     let v = if v.is_finite() { v } else { 0.0 };
-    let s = format!("{v:.3}");
-    if s == "-0.000" {
-        "0.000".to_string()
-    } else {
-        s
+    // Coordinates are millimetres on paper; anything beyond ±1e12 is not a
+    // drawing and is clamped rather than overflowing.
+    let m = (v.clamp(-1e12, 1e12) * 1000.0).round() as i64;
+    if m < 0 {
+        out.push('-');
     }
+    let m = m.unsigned_abs();
+    let (int, frac) = (m / 1000, m % 1000);
+    let mut digits = [0u8; 20];
+    let mut n = 0;
+    let mut i = int;
+    loop {
+        digits[n] = b'0' + (i % 10) as u8;
+        n += 1;
+        i /= 10;
+        if i == 0 {
+            break;
+        }
+    }
+    for k in (0..n).rev() {
+        out.push(digits[k] as char);
+    }
+    out.push('.');
+    out.push((b'0' + (frac / 100) as u8) as char);
+    out.push((b'0' + (frac / 10 % 10) as u8) as char);
+    out.push((b'0' + (frac % 10) as u8) as char);
 }
 
 /// Escapes the five XML special characters so any label is safe as text or
@@ -75,9 +104,17 @@ pub fn to_svg(drawing: &Drawing) -> String {
                 if points.is_empty() {
                     continue;
                 }
-                let pts: Vec<String> = points.iter().map(|(x, y)| format!("{},{}", num(*x), num(*y))).collect();
                 let tag = if *closed { "polygon" } else { "polyline" };
-                let _ = writeln!(out, "<{tag} points=\"{}\" {}/>", pts.join(" "), stroke_attrs(stroke));
+                let _ = write!(out, "<{tag} points=\"");
+                for (k, (x, y)) in points.iter().enumerate() {
+                    if k > 0 {
+                        out.push(' ');
+                    }
+                    push_num(&mut out, *x);
+                    out.push(',');
+                    push_num(&mut out, *y);
+                }
+                let _ = writeln!(out, "\" {}/>", stroke_attrs(stroke));
             }
             Shape::Text { at, size, text, anchor } => {
                 let anchor = match anchor {
@@ -132,6 +169,17 @@ mod tests {
         assert!(svg.contains("width=\"160.000mm\" height=\"80.500mm\" viewBox=\"0 0 160.000 80.500\""));
         assert!(svg.contains("version=\"1.1\""));
         assert!(svg.trim_end().ends_with("</svg>"));
+    }
+
+    #[test]
+    fn numbers_match_float_formatting() {
+        // The integer writer must agree with `format!("{:.3}")` away from exact ties.
+        for v in [0.0, -0.0, -0.0004, 1.0, -1.23449, 123.4567, 0.9996, -0.9996, 1e6 + 0.123, 159.99951] {
+            let want = format!("{v:.3}");
+            let want = if want == "-0.000" { "0.000".to_string() } else { want };
+            assert_eq!(num(v), want, "{v}");
+        }
+        assert_eq!(num(f64::NAN), "0.000");
     }
 
     #[test]

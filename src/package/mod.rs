@@ -142,16 +142,11 @@ pub fn compile(
     for (name, svg) in &additions.svg {
         files.push((name.clone(), svg.as_bytes().to_vec()));
     }
-    if options.formats.json {
-        let v = crate::results::results_json(design, &ev.calculation, &additions.json);
-        let mut text = serde_json::to_string_pretty(&v).unwrap_or_default();
-        text.push('\n');
-        files.push((format!("{stem}.json"), text.into_bytes()));
-    }
-    if options.formats.md {
-        files.push((format!("{stem}.md"), markdown.as_bytes().to_vec()));
-    }
-    if options.formats.pdf {
+    // The PDF (the slow part) is laid out while the JSON is written.
+    let pdf_job = || -> Result<Option<Vec<u8>>, PackageError> {
+        if !options.formats.pdf {
+            return Ok(None);
+        }
         let opts = PdfOptions {
             paper: options.paper,
             header_left: format!("{}  {}", d.number, d.title),
@@ -174,8 +169,26 @@ pub fn compile(
             },
             document_id: digest.clone(),
         };
-        let bytes =
-            pdf::markdown_to_pdf(&markdown, &additions.figures, &opts).map_err(|e| PackageError::Pdf(e.to_string()))?;
+        pdf::markdown_to_pdf(&markdown, &additions.figures, &opts)
+            .map(Some)
+            .map_err(|e| PackageError::Pdf(e.to_string()))
+    };
+    let json_job = || {
+        options.formats.json.then(|| {
+            let v = crate::results::results_json(design, &ev.calculation, &additions.json);
+            let mut text = serde_json::to_string_pretty(&v).unwrap_or_default();
+            text.push('\n');
+            text.into_bytes()
+        })
+    };
+    let (pdf_bytes, json_bytes) = rayon::join(pdf_job, json_job);
+    if let Some(bytes) = json_bytes {
+        files.push((format!("{stem}.json"), bytes));
+    }
+    if options.formats.md {
+        files.push((format!("{stem}.md"), markdown.as_bytes().to_vec()));
+    }
+    if let Some(bytes) = pdf_bytes? {
         files.push((format!("{stem}.pdf"), bytes));
     }
 

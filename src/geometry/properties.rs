@@ -211,32 +211,19 @@ pub fn properties(spec: &HeadSpec, profile: &Profile) -> Result<Properties, Geom
         ),
         blank_diameter: computed(
             blank,
-            format!(
-                "mean-surface equal-area method: D_blank = √(4·A_m/π), A_m = area of the mid-thickness surface \
-                 (inner surface offset t/2 = {} mm outward) including the straight flange; no allowance for \
-                 trimming or thinning",
-                fmt_mm(0.5 * t)
-            ),
+            // No number in the words: the report shows t in its own units on the sheet.
+            "mean-surface equal-area method: D_blank = √(4·A_m/π), A_m = area of the mid-thickness surface \
+             (inner surface offset t/2 outward) including the straight flange; no allowance for trimming or \
+             thinning"
+                .to_string(),
         ),
         metal_volume: computed(
             metal,
             format!(
                 "V_m = ∫₀ᵗ A(δ)dδ, A(δ) = area of the inner surface offset δ outward along the normal, \
-                 t = {} mm, straight flange included{numeric_note}",
-                fmt_mm(t)
+                 straight flange included{numeric_note}"
             ),
         ),
-        mass: computed(mass, format!("m = ρ·V_m, ρ = {} kg/m³", fmt_mm(spec.density))),
+        mass: computed(mass, "m = ρ·V_m, ρ the density of the material".to_string()),
     })
-}
-
-/// Formats a length for a method string: up to three decimals, no trailing zeros.
-fn fmt_mm(v: f64) -> String {
-    let s = format!("{v:.3}");
-    let s = s.trim_end_matches('0').trim_end_matches('.');
-    if s == "-0" {
-        "0".to_string()
-    } else {
-        s.to_string()
-    }
 }

@@ -149,31 +149,12 @@ impl std::error::Error for PdfError {}
 
 /// Parses an ISO `YYYY-MM-DD` date into a PDF date string at 00:00:00 UTC.
 fn pdf_date(date: &str) -> Result<String, PdfError> {
-    let bad = || PdfError::InvalidDate { date: date.to_string() };
-    let b = date.as_bytes();
-    if b.len() != 10 || b[4] != b'-' || b[7] != b'-' {
-        return Err(bad());
+    // One calendar check for the whole crate: the case file's.
+    if !crate::model::valid_iso_date(date) {
+        return Err(PdfError::InvalidDate { date: date.to_string() });
     }
-    let num = |r: std::ops::Range<usize>| -> Result<u32, PdfError> {
-        let s = date.get(r).ok_or_else(bad)?;
-        if !s.bytes().all(|c| c.is_ascii_digit()) {
-            return Err(bad());
-        }
-        s.parse().map_err(|_| bad())
-    };
-    let (y, m, d) = (num(0..4)?, num(5..7)?, num(8..10)?);
-    let leap = (y % 4 == 0 && y % 100 != 0) || y % 400 == 0;
-    let days = match m {
-        1 | 3 | 5 | 7 | 8 | 10 | 12 => 31,
-        4 | 6 | 9 | 11 => 30,
-        2 if leap => 29,
-        2 => 28,
-        _ => return Err(bad()),
-    };
-    if d == 0 || d > days {
-        return Err(bad());
-    }
-    Ok(format!("D:{y:04}{m:02}{d:02}000000+00'00'"))
+    let digits: String = date.chars().filter(char::is_ascii_digit).collect();
+    Ok(format!("D:{digits}000000+00'00'"))
 }
 
 /// A PDF text string: literal when plain ASCII, else UTF-16BE with a byte

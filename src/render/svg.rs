@@ -18,37 +18,9 @@ fn num(v: f64) -> String {
     s
 }
 
-/// Appends `v` with three decimals. Written by integer arithmetic rather
-/// than float formatting: drawings have thousands of coordinates and this
-/// was most of the time of writing an SVG.
+/// Appends `v` with three decimals.
 fn push_num(out: &mut String, v: f64) {
-    let v = if v.is_finite() { v } else { 0.0 };
-    // Coordinates are millimetres on paper; anything beyond ±1e12 is not a
-    // drawing and is clamped rather than overflowing.
-    let m = (v.clamp(-1e12, 1e12) * 1000.0).round() as i64;
-    if m < 0 {
-        out.push('-');
-    }
-    let m = m.unsigned_abs();
-    let (int, frac) = (m / 1000, m % 1000);
-    let mut digits = [0u8; 20];
-    let mut n = 0;
-    let mut i = int;
-    loop {
-        digits[n] = b'0' + (i % 10) as u8;
-        n += 1;
-        i /= 10;
-        if i == 0 {
-            break;
-        }
-    }
-    for k in (0..n).rev() {
-        out.push(digits[k] as char);
-    }
-    out.push('.');
-    out.push((b'0' + (frac / 100) as u8) as char);
-    out.push((b'0' + (frac / 10 % 10) as u8) as char);
-    out.push((b'0' + (frac % 10) as u8) as char);
+    super::push_thousandths(out, v, false);
 }
 
 /// Escapes the five XML special characters so any label is safe as text or

@@ -122,44 +122,9 @@ struct Content {
 }
 
 /// Appends a PDF number rounded to 0.001 (a thousandth of a point is far
-/// below anything visible), without trailing zeros. Written by integer
-/// arithmetic: float formatting was a large share of the time of a page.
+/// below anything visible), without trailing zeros.
 fn push_real(out: &mut String, v: f32) {
-    let v = if v.is_finite() { v as f64 } else { 0.0 };
-    let m = (v.clamp(-1e12, 1e12) * 1000.0).round() as i64;
-    if m < 0 {
-        out.push('-');
-    }
-    let m = m.unsigned_abs();
-    let (int, frac) = (m / 1000, m % 1000);
-    let mut digits = [0u8; 20];
-    let mut n = 0;
-    let mut i = int;
-    loop {
-        digits[n] = b'0' + (i % 10) as u8;
-        n += 1;
-        i /= 10;
-        if i == 0 {
-            break;
-        }
-    }
-    for k in (0..n).rev() {
-        out.push(digits[k] as char);
-    }
-    if frac != 0 {
-        out.push('.');
-        let d = [frac / 100, frac / 10 % 10, frac % 10];
-        let last = if d[2] != 0 {
-            3
-        } else if d[1] != 0 {
-            2
-        } else {
-            1
-        };
-        for x in &d[..last] {
-            out.push((b'0' + *x as u8) as char);
-        }
-    }
+    crate::render::push_thousandths(out, v as f64, true);
 }
 
 impl Content {

@@ -35,9 +35,7 @@ pub(crate) fn push_thousandths(out: &mut String, v: f64, trim: bool) {
         out.push(digits[k] as char);
     }
     let d = [frac / 100, frac / 10 % 10, frac % 10];
-    let keep = if !trim {
-        3
-    } else if d[2] != 0 {
+    let keep = if !trim || d[2] != 0 {
         3
     } else if d[1] != 0 {
         2

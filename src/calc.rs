@@ -114,6 +114,15 @@ impl fmt::Display for CalcError {
 
 impl std::error::Error for CalcError {}
 
+/// Which side of its bound a checked value must lie on.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+enum Bound {
+    /// provided ≥ bound.
+    AtLeast,
+    /// provided ≤ bound.
+    AtMost,
+}
+
 /// A calculation sheet for one component: the symbols known so far and the
 /// recorded steps and checks.
 #[derive(Debug, Clone)]
@@ -256,19 +265,7 @@ impl Sheet {
         provided: Quantity,
         note: &str,
     ) -> bool {
-        let pass = provided.value >= required.value * (1.0 - 1e-12) - 1e-15;
-        self.checks.push(Check {
-            name: name.to_string(),
-            clause: clause.to_string(),
-            required: Some(required),
-            provided: Some(provided),
-            pass,
-            margin: Some(Quantity::new(provided.value - required.value, required.kind)),
-            relation: "≥".to_string(),
-            note: note.to_string(),
-            applicability: false,
-        });
-        pass
+        self.compare(name, clause, required, provided, note, Bound::AtLeast, false)
     }
 
     /// Records a "provided ≤ limit" check.
@@ -281,19 +278,7 @@ impl Sheet {
         note: &str,
         applicability: bool,
     ) -> bool {
-        let pass = provided.value <= limit.value * (1.0 + 1e-12) + 1e-15;
-        self.checks.push(Check {
-            name: name.to_string(),
-            clause: clause.to_string(),
-            required: Some(limit),
-            provided: Some(provided),
-            pass,
-            margin: Some(Quantity::new(limit.value - provided.value, limit.kind)),
-            relation: "≤".to_string(),
-            note: note.to_string(),
-            applicability,
-        });
-        pass
+        self.compare(name, clause, limit, provided, note, Bound::AtMost, applicability)
     }
 
     /// Records an applicability check of "at least" form.
@@ -305,10 +290,40 @@ impl Sheet {
         provided: Quantity,
         note: &str,
     ) -> bool {
-        let pass = self.check_at_least(name, clause, limit, provided, note);
-        if let Some(c) = self.checks.last_mut() {
-            c.applicability = true;
-        }
+        self.compare(name, clause, limit, provided, note, Bound::AtLeast, true)
+    }
+
+    /// The one comparison behind every numeric check: a relative tolerance of
+    /// 1e-12 (plus 1e-15 absolute) absorbs binary noise at the limit itself, and
+    /// the margin is positive when there is spare capacity.
+    #[allow(clippy::too_many_arguments)]
+    fn compare(
+        &mut self,
+        name: &str,
+        clause: &str,
+        bound: Quantity,
+        provided: Quantity,
+        note: &str,
+        kind: Bound,
+        applicability: bool,
+    ) -> bool {
+        let (pass, margin, relation) = match kind {
+            Bound::AtLeast => {
+                (provided.value >= bound.value * (1.0 - 1e-12) - 1e-15, provided.value - bound.value, "≥")
+            }
+            Bound::AtMost => (provided.value <= bound.value * (1.0 + 1e-12) + 1e-15, bound.value - provided.value, "≤"),
+        };
+        self.checks.push(Check {
+            name: name.to_string(),
+            clause: clause.to_string(),
+            required: Some(bound),
+            provided: Some(provided),
+            pass,
+            margin: Some(Quantity::new(margin, bound.kind)),
+            relation: relation.to_string(),
+            note: note.to_string(),
+            applicability,
+        });
         pass
     }
 

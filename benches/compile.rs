@@ -13,7 +13,7 @@ use std::time::Instant;
 
 fn compile(name: &str, source: &str, templates: &TemplateSet) -> usize {
     let ev = evaluate(name, source).expect("case evaluates");
-    let additions = knuckle::cli::compile::additions_for(&ev);
+    let additions = package::Additions::for_case(&ev);
     let pkg = package::compile(&ev, templates, &additions, &Options::default()).expect("package compiles");
     pkg.files.iter().map(|(_, b)| b.len()).sum()
 }
@@ -60,9 +60,9 @@ fn main() {
         }
     });
     println!("    of which shape deviation search ({} heads): {ms:.2} ms", heads.len());
-    let additions = knuckle::cli::compile::additions_for(&ev);
+    let additions = package::Additions::for_case(&ev);
     let ms = mean_ms(&mut || {
-        std::hint::black_box(knuckle::cli::compile::additions_for(&ev));
+        std::hint::black_box(package::Additions::for_case(&ev));
     });
     println!("  head sheets (profile drawings and SVG): {ms:.2} ms");
     let md_only = Options { formats: package::Formats { md: true, pdf: false, json: true }, ..Options::default() };

@@ -89,28 +89,16 @@ fn compile_one(case: &Path, out: &Path, templates: &TemplateSet, options: &Optio
         Ok(ev) => ev,
         Err(e) => return Outcome::InputError(e.render()),
     };
-    let mut additions = additions_for(&ev);
-    if let Some(prev) = extras.previous {
-        match super::diff::changes_since(prev, &ev) {
-            Ok(md) => additions.changes = Some(md),
-            Err(e) => {
-                return Outcome::InputError(format!("error: --previous `{}`: {}\n", prev.display(), e.trim_end()))
-            }
-        }
-    }
+    let mut additions = match additions(&ev, extras.previous) {
+        Ok(a) => a,
+        Err(e) => return Outcome::InputError(e),
+    };
     if let Some(dir) = extras.signatures {
-        // The digest does not depend on signatures, so it can be computed first
-        // and the signatures checked against it.
-        let unsigned = match package::compile(
-            &ev,
-            templates,
-            &additions,
-            &Options { formats: package::Formats { md: false, pdf: false, json: true }, ..options.clone() },
-        ) {
-            Ok(p) => p,
-            Err(e) => return Outcome::InputError(format!("error: {file}: {e}\n")),
-        };
-        match signatures_for(dir, &unsigned, &extras.trusted) {
+        // The digest does not depend on signatures, so the signatures can be
+        // checked against it before anything is rendered.
+        let digest = package::package_digest(&ev, templates, &additions);
+        let stem = crate::package::manifest::package_stem(&ev.design.document.number, &ev.design.document.revision);
+        match signatures_for(dir, &stem, &digest, &extras.trusted) {
             Ok(sigs) => additions.signatures = sigs,
             Err(e) => return Outcome::InputError(format!("error: --signatures `{}`: {e}\n", dir.display())),
         }
@@ -127,21 +115,22 @@ fn compile_one(case: &Path, out: &Path, templates: &TemplateSet, options: &Optio
     }
 }
 
-/// The valid, trusted signatures of the signed package in `dir` whose
-/// digest equals this package's digest.
+/// The valid, trusted signatures of the signed package `stem` in `dir`,
+/// whose digest must equal `digest`.
 fn signatures_for(
     dir: &Path,
-    pkg: &package::Package,
+    stem: &str,
+    digest: &str,
     trusted: &[crate::signing::PublicKey],
 ) -> Result<Vec<(String, String, String, String)>, String> {
-    let path = dir.join(pkg.manifest_name());
+    let path = dir.join(format!("{stem}{}", crate::package::manifest::MANIFEST_SUFFIX));
     let text = std::fs::read_to_string(&path).map_err(|e| format!("cannot read `{}`: {e}", path.display()))?;
     let m = crate::package::manifest::Manifest::from_json(&text)?;
-    if m.digest != pkg.digest {
+    if m.digest != digest {
         return Err(format!(
             "the signed package has digest {} but this case compiles to {}: the signatures are for another calculation",
-            &m.digest[..12],
-            &pkg.digest[..12]
+            &m.digest[..m.digest.len().min(12)],
+            &digest[..12]
         ));
     }
     let reports = crate::signing::verify_signatures(dir, &m, trusted);
@@ -162,10 +151,17 @@ fn signatures_for(
     Ok(out)
 }
 
-/// Geometry rows, figures and JSON additions for the package.
-pub fn additions_for(ev: &crate::pipeline::Evaluated) -> Additions {
-    let d = &ev.design.document;
-    crate::package::heads::additions(ev, &crate::package::manifest::package_stem(&d.number, &d.revision))
+/// The additions of a package of `ev`: head sheets, and with `previous` the
+/// "changes since" section. Shared by `compile` and `verify --case`, so that
+/// a recompile in memory sees what the compile saw. The error is a message.
+pub(crate) fn additions(ev: &crate::pipeline::Evaluated, previous: Option<&Path>) -> Result<Additions, String> {
+    let mut additions = Additions::for_case(ev);
+    if let Some(prev) = previous {
+        let md = super::diff::changes_since(prev, ev)
+            .map_err(|e| format!("error: --previous `{}`: {}\n", prev.display(), e.trim_end()))?;
+        additions.changes = Some(md);
+    }
+    Ok(additions)
 }
 
 /// Writes every file atomically, the manifest last: a folder whose manifest

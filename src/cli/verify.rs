@@ -100,16 +100,13 @@ pub fn run(a: &VerifyArgs) -> i32 {
                 Err(code) => return code,
             };
             let opts = Options { formats: package::Formats { md: true, pdf: false, json: true }, ..Options::default() };
-            let mut additions = super::compile::additions_for(&ev);
-            if let Some(prev) = &a.previous {
-                match super::diff::changes_since(prev, &ev) {
-                    Ok(md) => additions.changes = Some(md),
-                    Err(e) => {
-                        eprintln!("error: --previous `{}`: {}", prev.display(), e.trim_end());
-                        return EXIT_INPUT;
-                    }
+            let additions = match super::compile::additions(&ev, a.previous.as_deref()) {
+                Ok(x) => x,
+                Err(e) => {
+                    eprint!("{e}");
+                    return EXIT_INPUT;
                 }
-            }
+            };
             match package::compile(&ev, &templates, &additions, &opts) {
                 Ok(p) => Some(p),
                 Err(e) => {

@@ -67,6 +67,20 @@ pub struct Additions {
     pub signatures: Vec<(String, String, String, String)>,
 }
 
+impl Additions {
+    /// The head sheets (geometry rows, figures, SVG) of an evaluated case.
+    pub fn for_case(ev: &Evaluated) -> Additions {
+        let d = &ev.design.document;
+        heads::additions(ev, &package_stem(&d.number, &d.revision))
+    }
+}
+
+/// The digest a package of `ev` with these templates and additions carries
+/// (the same value [`compile`] stamps, without rendering anything).
+pub fn package_digest(ev: &Evaluated, templates: &TemplateSet, additions: &Additions) -> String {
+    digest::digest(ev, templates, &additions.json, additions.changes.as_deref())
+}
+
 /// A compiled package, ready to write.
 #[derive(Debug, Clone, PartialEq)]
 pub struct Package {
@@ -132,7 +146,7 @@ pub fn compile(
     let design = &ev.design;
     let d = &design.document;
     let stem = package_stem(&d.number, &d.revision);
-    let digest = digest::digest(ev, templates, &additions.json, additions.changes.as_deref());
+    let digest = package_digest(ev, templates, additions);
     let mut ctx = context::build(ev, &digest, &additions.sheets);
     context::add_changes_and_signatures(&mut ctx, additions.changes.as_deref(), &additions.signatures);
     let markdown = templates.render(&ctx).map_err(PackageError::Template)?;

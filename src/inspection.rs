@@ -31,7 +31,13 @@ pub struct MeasuredPoint {
 /// `height [unit]` (any length unit, any order; other columns are ignored).
 pub fn parse_points(file: &str, text: &str) -> Result<Vec<MeasuredPoint>, InputErrors> {
     let err = |line: usize, msg: String, expected: &str| {
-        let offset: usize = text.lines().take(line - 1).map(|l| l.len() + 1).sum();
+        // Byte offset of the line's start, counted on the raw text so that
+        // "\r\n" line ends are measured as they are.
+        let offset = if line <= 1 {
+            0
+        } else {
+            text.match_indices('\n').nth(line - 2).map(|(i, _)| i + 1).unwrap_or(text.len())
+        };
         let len = text.lines().nth(line - 1).map(str::len).unwrap_or(0);
         InputErrors::one(
             file,

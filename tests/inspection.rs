@@ -150,3 +150,26 @@ fn head_study_refuses_bad_inputs() {
         assert!(String::from_utf8_lossy(&out.stderr).starts_with("error:"), "{args:?}");
     }
 }
+
+#[test]
+fn errors_in_crlf_point_files_name_the_right_line_regression() {
+    // Broke once: line offsets were summed from `lines()`, which drops the
+    // "\r" of "\r\n", so a marker drifted one byte per line.
+    let dir = scratch("inspection-crlf");
+    let p = dir.join("points.csv");
+    std::fs::write(&p, "radius [mm],height [mm]\r\n100,290\r\n200,abc\r\n300,260\r\n").unwrap();
+    let out = knuckle(&[
+        "inspect-head",
+        CASE,
+        "--component",
+        "top-head",
+        "--points",
+        p.to_str().unwrap(),
+        "--out",
+        dir.join("out").to_str().unwrap(),
+    ]);
+    let err = String::from_utf8_lossy(&out.stderr);
+    assert_eq!(out.status.code(), Some(2));
+    assert!(err.contains("points.csv:3:1"), "{err}");
+    assert!(err.contains("3 | 200,abc"), "{err}");
+}

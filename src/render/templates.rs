@@ -1,7 +1,6 @@
 //! The template set of a package: the defaults embedded in the binary, with
 //! any file of a user's template folder overriding the default of the same name.
 
-use sha2::{Digest, Sha256};
 use std::collections::BTreeMap;
 use std::fmt;
 use std::path::Path;
@@ -126,7 +125,7 @@ impl TemplateSet {
             .get_or_init(|| {
                 self.files
                     .iter()
-                    .map(|(n, t)| (n.clone(), crate::package::manifest::hex(&Sha256::digest(t.as_bytes()))))
+                    .map(|(n, t)| (n.clone(), crate::package::manifest::sha256_hex(t.as_bytes())))
                     .collect()
             })
             .clone()

@@ -356,6 +356,29 @@ fn span_of<T>(s: &Spanned<T>) -> Option<Range<usize>> {
     Some(s.span())
 }
 
+/// The edition as written when the rule set implements it; otherwise an
+/// error naming the editions it does implement.
+fn known_edition(
+    edition: String,
+    v: &Spanned<toml::Value>,
+    rules: &str,
+    editions: &[&str],
+    r: &mut Reader,
+) -> String {
+    if !editions.is_empty() && !editions.contains(&edition.trim()) {
+        r.err(
+            Diagnostic::new(
+                "document.edition",
+                span_of(v),
+                format!("edition `{edition}` is not implemented by the rule set `{rules}`"),
+            )
+            .expected(format!("one of: {}", editions.join(", ")))
+            .hint("Knuckle computes with the rules of the editions it lists; use one of them or another tool"),
+        );
+    }
+    edition.trim().to_string()
+}
+
 impl Reader {
     fn err(&mut self, d: Diagnostic) {
         self.errors.push(d);
@@ -598,11 +621,12 @@ impl Design {
                 );
             }
         }
+        let editions = crate::rules::rule_set(&rules).map(|set| set.editions()).unwrap_or(&[]);
         let edition = match &doc.edition {
-            None => "2023".to_string(),
+            None => editions.last().map(|e| e.to_string()).unwrap_or_default(),
             Some(v) => match v.get_ref() {
-                toml::Value::String(s) => s.clone(),
-                toml::Value::Integer(i) => i.to_string(),
+                toml::Value::String(s) => known_edition(s.clone(), v, &rules, editions, &mut r),
+                toml::Value::Integer(i) => known_edition(i.to_string(), v, &rules, editions, &mut r),
                 _ => {
                     r.err(
                         Diagnostic::new(
@@ -945,6 +969,21 @@ fn read_component(
         }
         q
     });
+    if let (Some(Diameter::Outside(d)), Some(t), Some(v)) = (diameter, nominal, c.nominal_thickness.as_ref()) {
+        // A wall as thick as the outside radius leaves no inside: the
+        // formulas would give numbers for a vessel that cannot exist.
+        if 2.0 * t.value >= d.value {
+            r.err(
+                Diagnostic::new(
+                    k("nominal_thickness"),
+                    Some(v.span()),
+                    "the nominal thickness is too large: it reaches the outside radius, so there is no inside",
+                )
+                .expected("a nominal thickness smaller than half of `outside_diameter`")
+                .hint("check `nominal_thickness` and `outside_diameter` (and their units)"),
+            );
+        }
+    }
     let ca = match &c.corrosion_allowance {
         Some(v) => {
             r.non_negative(&k("corrosion_allowance"), v, Kind::Length).inspect(|q| echo("corrosion_allowance", v, *q))

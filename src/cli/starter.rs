@@ -99,7 +99,7 @@ pub fn schema() -> Value {
                     "revision": { "type": "string" },
                     "date": { "type": "string", "format": "date" },
                     "rules": { "enum": crate::model::RULE_SETS },
-                    "edition": { "type": ["string", "integer"] },
+                    "edition": { "enum": crate::rules::asme_viii_1::EDITIONS },
                     "units": { "enum": ["SI", "US"] },
                     "history": { "type": "array", "items": {
                         "type": "object", "additionalProperties": false, "required": ["revision", "date"],

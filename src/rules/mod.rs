@@ -17,6 +17,9 @@ pub trait RuleSet: Sync {
     fn id(&self) -> &'static str;
     /// Full title for reports.
     fn title(&self) -> &'static str;
+    /// The code editions this rule set implements; a case asserting any
+    /// other edition is refused as an input error.
+    fn editions(&self) -> &'static [&'static str];
     /// Every formula this rule set uses (for tests and documentation).
     fn formulas(&self) -> &'static [&'static Formula];
     /// Evaluates every component and the vessel.

@@ -23,6 +23,12 @@ use crate::rules::{Calculation, ComponentResult, OrderItem, RuleSet};
 use crate::units::{Kind, Quantity, UnitSystem, INCH, STANDARD_GRAVITY};
 use formulas as f;
 
+/// The editions whose rules this module implements: the paragraph numbering
+/// of the 2019 edition onwards (see [`CLAUSE_NOTE`]), with the 1.3 hydrostatic
+/// and 1.1 pneumatic test factors of UG-99(b) and UG-100. Earlier editions
+/// differ (older test factors, other numbering) and are refused.
+pub const EDITIONS: &[&str] = &["2019", "2021", "2023"];
+
 /// The rule set object.
 pub struct AsmeViii1;
 
@@ -37,6 +43,9 @@ impl RuleSet for AsmeViii1 {
     }
     fn title(&self) -> &'static str {
         "ASME BPVC Section VIII Division 1, internal pressure"
+    }
+    fn editions(&self) -> &'static [&'static str] {
+        EDITIONS
     }
     fn formulas(&self) -> &'static [&'static Formula] {
         f::ALL
@@ -203,6 +212,18 @@ pub fn evaluate_component(design: &Design, c: &Component) -> Result<ComponentRes
     // Nominal thickness (given, or selected from the commercial list) and its adequacy.
     let chosen = selection::nominal(&mut s, design, c, minimum)?;
     let nominal = chosen.thickness;
+    if let Diameter::Outside(d) = c.diameter {
+        if 2.0 * nominal.value >= d.value {
+            return Err(CalcError::OutOfRange {
+                component: c.id.clone(),
+                message: format!(
+                    "the thickness {} is too large for the formulas: it reaches the outside radius {}",
+                    u.display(nominal),
+                    u.display(Quantity::new(d.value / 2.0, Kind::Length))
+                ),
+            });
+        }
+    }
 
     // MAWP hot and corroded, after the shape limits that use the same thickness.
     let available = if chosen.deducts { &f::AVAILABLE_THICKNESS_MILL } else { &f::AVAILABLE_THICKNESS };
@@ -349,12 +370,16 @@ fn component_mawp(s: &mut Sheet, c: &Component, condition: Condition) -> Result<
     };
     // NaN must fail too, so the test is written to be true for it.
     if q.value.is_nan() || q.value <= 0.0 {
+        // With a positive thickness every inside-diameter form gives a
+        // positive MAWP; only an outside-diameter form whose denominator
+        // has gone negative (a wall near the outside radius) does not.
+        let why = match s.get("t") {
+            Some(t) if t.value > 0.0 => "the thickness is too large for the formulas (it approaches the outside radius)",
+            _ => "the thickness available is not positive, so it is too small for the formulas",
+        };
         return Err(CalcError::OutOfRange {
             component: c.id.clone(),
-            message: format!(
-                "the MAWP {} is not positive; the thickness is too small for the formulas",
-                condition.words()
-            ),
+            message: format!("the MAWP {} is not positive; {why}", condition.words()),
         });
     }
     Ok(q)

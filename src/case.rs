@@ -131,6 +131,12 @@ pub struct RawDesign {
     pub liquid_density: Option<Value>,
     /// Test temperature (for allowable stresses looked up in a library).
     pub test_temperature: Option<Value>,
+    /// Service of the vessel (`compressed-air`, `steam`, `water`, `other`),
+    /// for the minimum thickness of UG-16(b).
+    pub service: Option<Spanned<String>>,
+    /// Which of the code's paired values apply (`SI` or `US`), for example
+    /// 1.5 mm or 1/16 in in UG-16(b); independent of the report units.
+    pub code_values: Option<Spanned<String>>,
 }
 
 /// `[materials.<key>]`.
@@ -151,6 +157,9 @@ pub struct RawMaterial {
     pub entry: Option<Spanned<String>>,
     /// Product form (`plate`, `pipe`, `forging`) of a material given directly.
     pub product_form: Option<Spanned<String>>,
+    /// Part of Subsection C the material belongs to (`UCS`, `UHA`, ...), of a
+    /// material given directly.
+    pub part: Option<Spanned<String>>,
 }
 
 /// `[[component]]`: every key any component type may take; the model stage

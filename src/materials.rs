@@ -234,9 +234,17 @@ pub struct LibraryMaterial {
     pub density: Quantity,
     /// Free note (empty when none).
     pub note: String,
+    /// Part of Subsection C the material belongs to (`UCS`, ...), when given.
+    pub part: Option<String>,
     /// Maximum allowable stress against temperature.
     pub table: StressTable,
 }
+
+/// The parts of Subsection C of Section VIII Division 1 that a material may
+/// be declared under: carbon and low-alloy steels (UCS), nonferrous (UNF),
+/// high alloy (UHA), cast iron (UCI), clad and lined (UCL), ductile iron
+/// (UCD), heat-treated ferritic steels (UHT) and low-temperature materials (ULT).
+pub const MATERIAL_PARTS: &[&str] = &["UCS", "UNF", "UHA", "UCI", "UCL", "UCD", "UHT", "ULT"];
 
 impl LibraryMaterial {
     /// Specification and grade as one name (`SA-516 Grade 70`).
@@ -283,6 +291,7 @@ struct RawLibraryMaterial {
     yield_strength: Option<Spanned<String>>,
     density: Option<Spanned<String>>,
     note: Option<String>,
+    part: Option<Spanned<String>>,
     allowable_stress: Option<Spanned<RawStressTable>>,
 }
 
@@ -294,6 +303,19 @@ struct RawStressTable {
     source: Option<Spanned<String>>,
     #[serde(default)]
     rows: Vec<Spanned<Vec<f64>>>,
+}
+
+/// The part name in its canonical spelling, when it is one of [`MATERIAL_PARTS`].
+pub fn part_name(text: &str) -> Option<String> {
+    let upper = text.trim().to_ascii_uppercase();
+    MATERIAL_PARTS.iter().find(|p| **p == upper).map(|p| p.to_string())
+}
+
+/// The diagnostic for a part that is not one of [`MATERIAL_PARTS`].
+pub fn unknown_part(key: String, p: &Spanned<String>) -> Diagnostic {
+    Diagnostic::new(key, Some(p.span()), format!("unknown material part `{}`", p.get_ref()))
+        .expected(format!("one of: {}", MATERIAL_PARTS.join(", ")))
+        .hint("the part of Subsection C the material is listed under, e.g. \"UCS\" for carbon and low-alloy steels")
 }
 
 fn missing(errors: &mut Vec<Diagnostic>, key: String, span: Range<usize>, what: &str) {
@@ -398,6 +420,16 @@ pub fn parse_library(file: &str, source: &str) -> Result<Library, InputErrors> {
                 None
             }
         };
+        let part = match &m.part {
+            Some(p) => {
+                let known = part_name(p.get_ref());
+                if known.is_none() {
+                    errors.push(unknown_part(k("part"), p));
+                }
+                known
+            }
+            None => None,
+        };
         let tensile = library_quantity(
             &mut errors,
             k("tensile_strength"),
@@ -444,6 +476,7 @@ pub fn parse_library(file: &str, source: &str) -> Result<Library, InputErrors> {
                     yield_strength,
                     density,
                     note: m.note.clone().unwrap_or_default(),
+                    part,
                     table,
                 },
             );

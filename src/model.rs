@@ -117,6 +117,47 @@ pub struct Conditions {
     pub liquid_density: Option<Quantity>,
     /// Test temperature (given, or [`DEFAULT_TEST_TEMPERATURE`]).
     pub test_temperature: Quantity,
+    /// The vessel's service, for the minimum thickness of UG-16(b).
+    pub service: Service,
+    /// Which of the code's paired SI and US values apply, when stated; never
+    /// taken from the report units, so that results do not depend on them.
+    pub code_values: Option<UnitSystem>,
+}
+
+/// The service of the vessel as far as the rules distinguish it.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Serialize)]
+#[serde(rename_all = "kebab-case")]
+pub enum Service {
+    /// Not stated in the case file.
+    NotStated,
+    /// Compressed air.
+    CompressedAir,
+    /// Steam.
+    Steam,
+    /// Water.
+    Water,
+    /// Any other service.
+    Other,
+}
+
+impl Service {
+    /// Every service with its case-file name.
+    pub const ALL: [(&'static str, Service); 4] = [
+        ("compressed-air", Service::CompressedAir),
+        ("steam", Service::Steam),
+        ("water", Service::Water),
+        ("other", Service::Other),
+    ];
+
+    /// The case-file name, or `not stated`.
+    pub fn name(self) -> &'static str {
+        Self::ALL.iter().find(|(_, s)| *s == self).map(|(n, _)| *n).unwrap_or("not stated")
+    }
+
+    /// Whether UG-16(b)(4) (compressed air, steam and water service) applies.
+    pub fn is_air_steam_or_water(self) -> bool {
+        matches!(self, Service::CompressedAir | Service::Steam | Service::Water)
+    }
 }
 
 /// A material with its allowable stresses.
@@ -134,6 +175,8 @@ pub struct Material {
     pub density: Quantity,
     /// Product form: plate unless stated, or as the library gives it.
     pub product_form: ProductForm,
+    /// Part of Subsection C (`UCS`, `UHA`, ...), when stated.
+    pub part: Option<String>,
     /// The library look-ups, when the material is taken from a library.
     pub library: Option<LibraryLookup>,
 }
@@ -358,13 +401,7 @@ fn span_of<T>(s: &Spanned<T>) -> Option<Range<usize>> {
 
 /// The edition as written when the rule set implements it; otherwise an
 /// error naming the editions it does implement.
-fn known_edition(
-    edition: String,
-    v: &Spanned<toml::Value>,
-    rules: &str,
-    editions: &[&str],
-    r: &mut Reader,
-) -> String {
+fn known_edition(edition: String, v: &Spanned<toml::Value>, rules: &str, editions: &[&str], r: &mut Reader) -> String {
     if !editions.is_empty() && !editions.contains(&edition.trim()) {
         r.err(
             Diagnostic::new(
@@ -715,6 +752,37 @@ impl Design {
                 written: "20 degC".to_string(),
             }),
         };
+        let service = match &d.service {
+            None => Service::NotStated,
+            Some(s) => match Service::ALL.iter().find(|(n, _)| *n == s.get_ref().as_str()) {
+                Some((_, service)) => *service,
+                None => {
+                    let names: Vec<&str> = Service::ALL.iter().map(|(n, _)| *n).collect();
+                    r.err(
+                        Diagnostic::new("design.service", span_of(s), format!("unknown service `{}`", s.get_ref()))
+                            .expected(format!("one of: {}", names.join(", "))),
+                    );
+                    Service::NotStated
+                }
+            },
+        };
+        let code_values = match &d.code_values {
+            None => None,
+            Some(s) => {
+                match s.get_ref().as_str() {
+                    "SI" | "si" => Some(UnitSystem::Si),
+                    "US" | "us" => Some(UnitSystem::Us),
+                    other => {
+                        r.err(
+                        Diagnostic::new("design.code_values", span_of(s), format!("unknown code values `{other}`"))
+                            .expected("\"SI\" or \"US\"")
+                            .hint("the unit system of construction, whose values of the code apply (1.5 mm or 1/16 in)"),
+                    );
+                        None
+                    }
+                }
+            }
+        };
         let design_temperature = match (temperature, &d.temperature) {
             (Some(q), Some(v)) => Some(construction::Temperature {
                 value: q,
@@ -737,7 +805,7 @@ impl Design {
                 materials.insert(key.clone(), mat);
             }
         }
-        let stock = construction::read_stock(&mut r, case, units);
+        let stock = construction::read_stock(&mut r, case, code_values);
 
         // Components.
         if case.component.is_empty() {
@@ -812,6 +880,8 @@ impl Design {
                 corrosion_allowance: corrosion,
                 liquid_density,
                 test_temperature: test_temperature.value,
+                service,
+                code_values,
             },
             materials,
             components,

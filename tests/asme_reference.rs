@@ -310,17 +310,29 @@ fn static_head_is_rho_g_h_and_mawp_at_top_subtracts_it() {
     assert!((c.design_pressure.value - 1_098_066.5).abs() < 1e-6);
 }
 
-#[test]
-fn ug16_floor_governs_thin_low_pressure_parts() {
-    // UG-16(b): 1.5 mm exclusive of corrosion allowance (1/16 in in US units).
-    let c = run(&case(
-        "SI",
+/// A thin, low-pressure cylinder whose minimum thickness is set by UG-16(b),
+/// with extra `[design]` lines and extra material lines.
+fn floor_case(units: &str, design: &str, material: &str) -> ComponentResult {
+    let text = case(
+        units,
         "0.01 MPa",
         "138 MPa",
         "1 mm",
         "type = \"cylinder\"\ninside_diameter = \"500 mm\"\njoint_efficiency = 1.0",
-    ));
+    )
+    .replace("corrosion_allowance = \"1 mm\"", &format!("corrosion_allowance = \"1 mm\"\n{design}"))
+    .replace("allowable_stress = \"138 MPa\"", &format!("allowable_stress = \"138 MPa\"\n{material}"));
+    run(&text)
+}
+
+#[test]
+fn ug16_floor_governs_thin_low_pressure_parts() {
+    // UG-16(b): 1.5 mm (SI value) or 1/16 in (US value) exclusive of corrosion
+    // allowance; here 1 mm of corrosion allowance is added.
+    let c = floor_case("SI", "code_values = \"SI\"", "");
     assert!((mm(c.minimum_thickness) - 2.5).abs() < 1e-9);
+    let c = floor_case("SI", "code_values = \"US\"", "");
+    assert!((mm(c.minimum_thickness) - (1.5875 + 1.0)).abs() < 1e-9);
     let c = run(&case(
         "US",
         "1 psi",
@@ -329,6 +341,50 @@ fn ug16_floor_governs_thin_low_pressure_parts() {
         "type = \"cylinder\"\ninside_diameter = \"20 in\"\njoint_efficiency = 1.0",
     ));
     assert!((inch(c.minimum_thickness) - 0.0625).abs() < 1e-9);
+}
+
+#[test]
+fn ug16_values_follow_the_code_values_key_not_the_report_units() {
+    // Regression: the UG-16(b) floor used to follow the report units. Without
+    // `code_values` the larger of 1/16 in (1.5875 mm) and 1.5 mm is taken in
+    // both unit systems (UG-16(b), hand arithmetic: 25.4/16 = 1.5875).
+    for units in ["SI", "US"] {
+        let c = floor_case(units, "", "");
+        assert!((mm(c.minimum_thickness) - 2.5875).abs() < 1e-9, "{units}: {}", mm(c.minimum_thickness));
+        let floor = c.steps.iter().find(|s| s.symbol == "tf").expect("t_f step");
+        assert!(floor.formula.contains("more conservative"), "{}", floor.formula);
+        for values in ["SI", "US"] {
+            let a = floor_case(units, &format!("code_values = \"{values}\""), "");
+            let b = floor_case(if units == "SI" { "US" } else { "SI" }, &format!("code_values = \"{values}\""), "");
+            assert_eq!(a.minimum_thickness, b.minimum_thickness, "{values} values in {units} and the other units");
+        }
+    }
+}
+
+#[test]
+fn ug16b4_floor_for_air_steam_and_water_service_with_ucs_materials() {
+    // UG-16(b)(4), from memory of the paragraph: 3/32 in (2.5 mm) exclusive of
+    // corrosion allowance for shells and heads in compressed air, steam or water
+    // service made of Part UCS materials; 1 mm corrosion allowance is added.
+    for service in ["compressed-air", "steam", "water"] {
+        let design = format!("service = \"{service}\"\ncode_values = \"SI\"");
+        let c = floor_case("SI", &design, "part = \"UCS\"");
+        assert!((mm(c.minimum_thickness) - 3.5).abs() < 1e-9, "{service}");
+        let floor = c.steps.iter().find(|s| s.symbol == "tf").unwrap();
+        assert_eq!(floor.clause, "UG-16(b)(4)");
+        // A material whose part is not stated is taken as a carbon steel.
+        let c = floor_case("SI", &design, "");
+        assert!((mm(c.minimum_thickness) - 3.5).abs() < 1e-9, "{service}, part not stated");
+        // US values: 3/32 in = 2.38125 mm (hand arithmetic).
+        let c = floor_case("SI", &format!("service = \"{service}\"\ncode_values = \"US\""), "part = \"UCS\"");
+        assert!((mm(c.minimum_thickness) - 3.38125).abs() < 1e-9, "{service}, US values");
+        // A high-alloy material in the same service keeps the general floor.
+        let c = floor_case("SI", &design, "part = \"UHA\"");
+        assert!((mm(c.minimum_thickness) - 2.5).abs() < 1e-9, "{service}, Part UHA");
+    }
+    // Other service: the general floor.
+    let c = floor_case("SI", "service = \"other\"\ncode_values = \"SI\"", "part = \"UCS\"");
+    assert!((mm(c.minimum_thickness) - 2.5).abs() < 1e-9);
 }
 
 #[test]
@@ -366,4 +422,95 @@ fn torisphere_shape_limits_are_checked() {
     let k = c.checks.iter().find(|k| k.name.starts_with("knuckle radius at least 6 %")).unwrap();
     assert!(!k.pass);
     assert!(c.checks.iter().find(|k| k.name.starts_with("knuckle radius at least three")).unwrap().pass);
+}
+
+/// The applicability check named `name` of a component, if recorded.
+fn check_named<'a>(c: &'a ComponentResult, name: &str) -> Option<&'a knuckle::calc::Check> {
+    c.checks.iter().find(|k| k.name == name)
+}
+
+#[test]
+fn heads_and_cones_flag_pressures_beyond_their_thin_formulas() {
+    // Regression: at P = 140 MPa and S = 138 MPa a head was reported acceptable
+    // with a MAWP of 2.3 S. The code gives no explicit bound for Appendix 1,
+    // 1-4(c) to (e); Knuckle bounds heads by the sphere limit of UG-27(d),
+    // 0.665 S E, and cones by the cylinder limit of UG-27(c)(1), 0.385 S E
+    // (hand arithmetic: 0.665 x 138 = 91.77 MPa, 0.385 x 138 = 53.13 MPa).
+    let parts = [
+        ("type = \"ellipsoidal-head\"\naspect_ratio = 2.0", "ellipsoidal head", 91.77),
+        ("type = \"torispherical-head\"\nshape = \"2:1-equivalent\"", "torispherical head", 91.77),
+        (
+            "type = \"conical-section\"\nsmall_inside_diameter = \"500 mm\"\nhalf_apex_angle = \"20 deg\"",
+            "conical section",
+            53.13,
+        ),
+    ];
+    for (kind, what, bound_mpa) in parts {
+        let name = format!("design pressure within the range of the {what} formula");
+        for (p, inside) in [(bound_mpa * 0.99, true), (bound_mpa * 1.01, false), (140.0, false)] {
+            let c = run(&case(
+                "SI",
+                &format!("{p} MPa"),
+                "138 MPa",
+                "0 mm",
+                &format!(
+                    "{kind}\ninside_diameter = \"1000 mm\"\njoint_efficiency = 1.0\nnominal_thickness = \"900 mm\""
+                ),
+            ));
+            let k = check_named(&c, &name).unwrap_or_else(|| panic!("{what}: no `{name}` check"));
+            assert!(k.applicability, "{what}: a limit of applicability");
+            assert!((k.required.unwrap().value - bound_mpa * 1e6).abs() < 1.0, "{what}: bound {:?}", k.required);
+            assert_eq!(k.pass, inside, "{what} at {p} MPa");
+            if !inside {
+                assert!(!c.acceptable, "{what} at {p} MPa must not be acceptable");
+                assert!(k.note.contains("not demonstrated"), "{}", k.note);
+            }
+        }
+    }
+}
+
+#[test]
+fn a_test_stress_below_the_design_stress_is_a_failed_check_not_silence() {
+    // Regression: UG-99(b) takes LSR = S_test / S as it is; a ratio below 1
+    // lowers the hydrostatic test pressure below 1.3 x MAWP, which used to pass
+    // without a word. Hand arithmetic: LSR = 120/138 = 0.869565...
+    let text = case(
+        "SI",
+        "1 MPa",
+        "138 MPa",
+        "0 mm",
+        "type = \"cylinder\"\ninside_diameter = \"1000 mm\"\njoint_efficiency = 1.0\nnominal_thickness = \"10 mm\"",
+    )
+    .replace("allowable_stress = \"138 MPa\"", "allowable_stress = \"138 MPa\"\ntest_allowable_stress = \"120 MPa\"");
+    let ev = evaluate("ref.toml", &text).unwrap();
+    let v = &ev.calculation.vessel;
+    assert!((v.stress_ratio - 120.0 / 138.0).abs() < 1e-12);
+    let k = v.checks.iter().find(|k| k.name.starts_with("lowest stress ratio at least 1")).expect("the check");
+    assert!(!k.pass);
+    assert!(k.note.contains("below 1.3 × MAWP"), "{}", k.note);
+    assert!(!ev.calculation.acceptable());
+    // The same case with equal stresses passes the check.
+    let text = text.replace("test_allowable_stress = \"120 MPa\"", "test_allowable_stress = \"138 MPa\"");
+    let ev = evaluate("ref.toml", &text).unwrap();
+    let k = ev.calculation.vessel.checks.iter().find(|k| k.name.starts_with("lowest stress ratio")).unwrap();
+    assert!(k.pass);
+}
+
+#[test]
+fn a_selected_thickness_at_the_outside_radius_is_called_too_large() {
+    // Regression: a wall reaching the outside radius was said to be "too small
+    // for the formulas". A 20 mm outside diameter at 137 MPa with S = 138 MPa
+    // needs t_r = 10·(1 − 1/√275) = 9.40 mm (Appendix 1-2, hand arithmetic), so
+    // the list's next plate is 10 mm, the whole outside radius.
+    let text = case(
+        "SI",
+        "137 MPa",
+        "138 MPa",
+        "0 mm",
+        "type = \"cylinder\"\noutside_diameter = \"20 mm\"\njoint_efficiency = 1.0",
+    );
+    let Err(err) = evaluate("ref.toml", &text) else { panic!("an error was expected") };
+    let text = err.render();
+    assert!(text.contains("too large"), "{text}");
+    assert!(!text.contains("too small"), "{text}");
 }

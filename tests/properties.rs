@@ -132,18 +132,39 @@ proptest! {
     }
 
     #[test]
-    fn results_do_not_depend_on_the_report_unit_system(i in inputs()) {
-        // A given nominal thickness: the commercial lists differ by unit system by design.
-        let (Ok(si), Ok(us)) = (evaluate("a.toml", &text_with(&i, "SI", Some(50.0))), evaluate("b.toml", &text_with(&i, "US", Some(50.0)))) else { return Ok(()) };
+    fn results_do_not_depend_on_the_report_unit_system(
+        i in inputs(),
+        values in 0usize..3,
+        select in any::<bool>(),
+        undertolerance in prop::option::of(0.05f64..0.6),
+    ) {
+        // Every result, with or without `code_values`, with a given nominal
+        // thickness or one selected from the default list, with or without a
+        // stated plate under-tolerance (UG-16(c)): only the display may change.
+        let design = ["", "code_values = \"SI\"\n", "code_values = \"US\"\n"][values];
+        let nominal = if select { None } else { Some(50.0) };
+        let case = |units: &str| {
+            let mut t = text_with(&i, units, nominal).replace("[materials.m]", &format!("{design}[materials.m]"));
+            if let Some(u) = undertolerance {
+                t.push_str(&format!("mill_undertolerance = \"{u} mm\"\n"));
+            }
+            t
+        };
+        let (Ok(si), Ok(us)) = (evaluate("a.toml", &case("SI")), evaluate("b.toml", &case("US"))) else { return Ok(()) };
         let (a, b) = (&si.calculation.components[0], &us.calculation.components[0]);
         prop_assert_eq!(a.required_thickness, b.required_thickness);
-        // The UG-16(b) floor is the code's "1/16 in. (1.5 mm)": 1/16 in in US
-        // reports, 1.5 mm in SI ones. Where it governs, the minimum thickness
-        // (and a MAWP taken at it) differ by design; elsewhere nothing may.
-        let floor_governs = a.required_thickness.is_some_and(|t| t.value < 0.0016);
-        prop_assume!(!floor_governs);
+        prop_assert_eq!(a.minimum_thickness, b.minimum_thickness);
+        prop_assert_eq!(a.selected_thickness, b.selected_thickness);
         prop_assert_eq!(a.mawp, b.mawp);
-        prop_assert_eq!(si.calculation.vessel.hydrotest_pressure, us.calculation.vessel.hydrotest_pressure);
+        prop_assert_eq!(a.map, b.map);
+        prop_assert_eq!(a.mass, b.mass);
+        prop_assert_eq!(a.acceptable, b.acceptable);
+        let (va, vb) = (&si.calculation.vessel, &us.calculation.vessel);
+        prop_assert_eq!(va.mawp, vb.mawp);
+        prop_assert_eq!(va.hydrotest_pressure, vb.hydrotest_pressure);
+        prop_assert_eq!(va.pneumatic_test_pressure, vb.pneumatic_test_pressure);
+        let checks = |c: &ComponentResult| c.checks.iter().map(|k| (k.name.clone(), k.pass, k.required, k.provided)).collect::<Vec<_>>();
+        prop_assert_eq!(checks(a), checks(b));
     }
 
     #[test]

@@ -38,7 +38,7 @@ pub fn schema() -> Value {
     // Built in parts: one `json!` of the whole schema exceeds the macro's recursion limit.
     let material_one_of = json!([
         {"required": ["name", "allowable_stress"], "not": {"anyOf": [{"required": ["library"]}, {"required": ["entry"]}]}},
-        {"required": ["library", "entry"], "not": {"anyOf": [{"required": ["allowable_stress"]}, {"required": ["test_allowable_stress"]}, {"required": ["density"]}, {"required": ["product_form"]}]}}
+        {"required": ["library", "entry"], "not": {"anyOf": [{"required": ["allowable_stress"]}, {"required": ["test_allowable_stress"]}, {"required": ["density"]}, {"required": ["product_form"]}, {"required": ["part"]}]}}
     ]);
     let joint_one_of = json!([
         {"required": ["joint_efficiency"], "not": {"anyOf": [{"required": ["joint_type"]}, {"required": ["radiography"]}, {"required": ["seamless"]}]}},
@@ -120,6 +120,8 @@ pub fn schema() -> Value {
                     "corrosion_allowance": quantity("default corrosion allowance", "3 mm"),
                     "liquid_density": quantity("liquid density for static head", "1000 kg/m3"),
                     "test_temperature": quantity("test temperature for library stresses (default 20 degC)", "20 degC"),
+                    "service": {"enum": ["compressed-air", "steam", "water", "other"], "description": "service, for the UG-16(b) minimum thickness"},
+                    "code_values": {"enum": ["SI", "US"], "description": "which of the code's paired SI and US values apply (default: the more conservative of each pair)"},
                 }
             },
             "stock": stock,
@@ -134,6 +136,7 @@ pub fn schema() -> Value {
                         "test_allowable_stress": quantity("allowable stress at test temperature", "138 MPa"),
                         "density": quantity("metal density", "7850 kg/m3"),
                         "product_form": {"enum": forms, "description": "product form of a material given directly (default plate)"},
+                        "part": {"enum": crate::materials::MATERIAL_PARTS, "description": "part of Subsection C of a material given directly (UCS for carbon and low-alloy steels)"},
                         "library": {"type": "string", "description": "materials library file, relative to the case file"},
                         "entry": {"type": "string", "description": "the material's key in the library"},
                     }

@@ -83,6 +83,16 @@ pub(super) fn read_material(
             form
         }
     };
+    let part = match &m.part {
+        Some(p) => {
+            let known = crate::materials::part_name(p.get_ref());
+            if known.is_none() {
+                r.err(crate::materials::unknown_part(k("part"), p));
+            }
+            known
+        }
+        None => None,
+    };
     Some(Material {
         key: key.to_string(),
         name: name?,
@@ -90,6 +100,7 @@ pub(super) fn read_material(
         test_allowable_stress: st?,
         density: rho?,
         product_form: form?,
+        part,
         library: None,
     })
 }
@@ -112,6 +123,7 @@ fn library_material(
         ("test_allowable_stress", m.test_allowable_stress.as_ref().map(|v| v.span())),
         ("density", m.density.as_ref().map(|v| v.span())),
         ("product_form", m.product_form.as_ref().map(|v| v.span())),
+        ("part", m.part.as_ref().map(|v| v.span())),
     ] {
         if s.is_some() {
             r.err(Diagnostic::new(k(f), s, format!("`{f}` cannot be given for a material taken from a library")).hint(
@@ -188,6 +200,7 @@ fn library_material(
         test_allowable_stress: st,
         density: lm.density,
         product_form: lm.product_form,
+        part: lm.part.clone(),
         library: Some(LibraryLookup {
             // The path as written in the case (relative to it), so that the
             // design and its digest do not depend on the working folder.
@@ -499,13 +512,16 @@ pub(super) fn read_pipe_size(
     Some(size)
 }
 
-/// Reads `[stock]`, or the default plate list for the report units.
-pub(super) fn read_stock(r: &mut Reader, case: &CaseFile, units: UnitSystem) -> PlateStock {
+/// Reads `[stock]`, or the default plate list of the case's code values
+/// (the SI list when they are not stated). Never the report units: the same
+/// case gives the same plates whatever units it is reported in.
+pub(super) fn read_stock(r: &mut Reader, case: &CaseFile, code_values: Option<UnitSystem>) -> PlateStock {
     let default = PlateStock {
-        thicknesses: crate::stock::default_plate_list(units),
-        source: match units {
-            UnitSystem::Si => "default SI plate list".to_string(),
-            UnitSystem::Us => "default US plate list".to_string(),
+        thicknesses: crate::stock::default_plate_list(code_values.unwrap_or(UnitSystem::Si)),
+        source: match code_values {
+            Some(UnitSystem::Si) => "default SI plate list".to_string(),
+            Some(UnitSystem::Us) => "default US plate list".to_string(),
+            None => "default SI plate list (design.code_values not stated)".to_string(),
         },
     };
     let Some(list) = case.stock.as_ref().and_then(|s| s.get_ref().plate_thicknesses.as_ref()) else {

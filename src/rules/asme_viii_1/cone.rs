@@ -44,6 +44,7 @@ pub fn thickness(
         "the cone formula of UG-32 is limited to half-apex angles of 30°",
         true,
     );
+    super::heads::thin_formula_range(s, &f::CONE_PRESSURE_LIMIT, "conical section")?;
     let t = match c.diameter {
         Diameter::Inside(_) => s.step(&f::CONE_T, "required thickness at the large end")?,
         Diameter::Outside(_) => s.step(&f::CONE_T_OUT, "required thickness at the large end (outside diameter)")?,

@@ -128,6 +128,14 @@ formula!(KNUCKLE_MIN_SKIRT, "knuckle-min-skirt", "r_min1", "UG-32", "0.06*D_s", 
 formula!(KNUCKLE_MIN_T, "knuckle-min-thickness", "r_min2", "UG-32", "3*t_n", Length);
 formula!(TORI_RATIO, "tori-thickness-ratio", "t_L", "Appendix 1, 1-4(f)", "t/L", Dimensionless);
 
+// Range of the thin formulas of formed heads and cones. The code states no
+// pressure bound for the forms of Appendix 1, 1-4(c) to (e); Knuckle bounds
+// each by the thin-wall limit of the shell form it rests on: the sphere of
+// UG-27(d) for heads (their crowns are spherical or nearly so) and the
+// cylinder of UG-27(c)(1) for cones.
+formula!(HEAD_PRESSURE_LIMIT, "head-thin-pressure-limit", "P_lim", "UG-27(d) bound", "0.665*S*E", Pressure);
+formula!(CONE_PRESSURE_LIMIT, "cone-thin-pressure-limit", "P_lim", "UG-27(c)(1) bound", "0.385*S*E", Pressure);
+
 // Conical section.
 formula!(CONE_T, "cone-thickness", "t_r", "UG-32, Appendix 1, 1-4(e)", "P*D/(2*cos(alpha)*(S*E - 0.6*P))", Length);
 formula!(
@@ -204,6 +212,8 @@ formula!(LIQUID_MASS, "liquid-mass", "m_l", "derived", "rho*V_v", Mass);
 
 /// Every formula above, for tests and the documentation.
 pub static ALL: &[&Formula] = &[
+    &HEAD_PRESSURE_LIMIT,
+    &CONE_PRESSURE_LIMIT,
     &STATIC_HEAD,
     &PRESSURE_AT_COMPONENT,
     &CORRODED_DIAMETER,

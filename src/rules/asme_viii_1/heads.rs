@@ -43,6 +43,28 @@ pub fn is_six_percent(crown: Quantity, knuckle: Quantity) -> bool {
     (knuckle.value / crown.value - 0.06).abs() < 1e-9
 }
 
+/// Records the pressure range of the thin formula `limit` as an
+/// applicability check: above it the head or cone formula is used outside
+/// the range it was derived for, and the result is not demonstrated.
+pub fn thin_formula_range(s: &mut Sheet, limit: &crate::calc::Formula, what: &str) -> Result<(), CalcError> {
+    let p_lim = s.step(limit, &format!("upper pressure bound of the {what} formula"))?;
+    let p = s.get("P").ok_or(CalcError::Formula { id: limit.id, message: "P is not bound".into() })?;
+    s.check_at_most(
+        &format!("design pressure within the range of the {what} formula"),
+        limit.clause,
+        p_lim,
+        p,
+        &format!(
+            "the design pressure exceeds the range where the thin {what} formula applies (Knuckle bounds it by the \
+             thin-wall limit of {}, the code gives no explicit bound); a thick-wall analysis is required and the \
+             thickness and MAWP shown are not demonstrated",
+            limit.clause.trim_end_matches(" bound")
+        ),
+        true,
+    );
+    Ok(())
+}
+
 /// Required thickness of an ellipsoidal head.
 pub fn ellipsoidal_thickness(
     s: &mut Sheet,
@@ -51,6 +73,7 @@ pub fn ellipsoidal_thickness(
     _condition: Condition,
 ) -> Result<Quantity, CalcError> {
     s.input("a", "ratio of major to minor axis, D/2h", Quantity::new(aspect_ratio, Kind::Dimensionless));
+    thin_formula_range(s, &f::HEAD_PRESSURE_LIMIT, "ellipsoidal head")?;
     s.step(&f::ELL_K, "stress factor K")?;
     match c.diameter {
         Diameter::Inside(_) => s.step(&f::ELL_T, "required thickness"),
@@ -83,6 +106,7 @@ pub fn torispherical_thickness(
     condition: Condition,
 ) -> Result<Quantity, CalcError> {
     bind_radii(s, crown, knuckle, condition)?;
+    thin_formula_range(s, &f::HEAD_PRESSURE_LIMIT, "torispherical head")?;
     if is_six_percent(crown, knuckle) {
         s.step(&f::TORI6_T, "required thickness (knuckle radius 6 % of the crown radius)")
     } else {

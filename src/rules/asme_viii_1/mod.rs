@@ -84,13 +84,88 @@ impl Condition {
     }
 }
 
-/// The UG-16(b) floor: 1/16 in (1.5 mm) exclusive of corrosion allowance,
-/// in the value natural to the report's unit system.
-pub fn ug16_floor(units: UnitSystem) -> Quantity {
-    match units {
-        UnitSystem::Si => Quantity::mm(1.5),
-        UnitSystem::Us => Quantity::new(INCH / 16.0, Kind::Length),
+/// One minimum thickness of the code, which states it twice: in US
+/// customary units and in SI units (which are not exact conversions).
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub struct PairedValue {
+    /// The US value as the code writes it (`1/16 in`).
+    pub us_text: &'static str,
+    /// The US value, m.
+    pub us: f64,
+    /// The SI value as the code writes it (`1.5 mm`).
+    pub si_text: &'static str,
+    /// The SI value, m.
+    pub si: f64,
+}
+
+impl PairedValue {
+    /// The value for the case's code values, with words saying which was
+    /// taken. Without a stated choice the `conservative` one of the two is
+    /// taken (the larger for a minimum, the smaller for an allowance), so the
+    /// result never depends on the report units.
+    pub fn choose(&self, code_values: Option<UnitSystem>, larger_is_conservative: bool) -> (Quantity, String) {
+        let (v, words) = match code_values {
+            Some(UnitSystem::Si) => (self.si, format!("{}, the SI value (design.code_values = \"SI\")", self.si_text)),
+            Some(UnitSystem::Us) => (self.us, format!("{}, the US value (design.code_values = \"US\")", self.us_text)),
+            None => {
+                let take_us = (self.us > self.si) == larger_is_conservative;
+                let (v, text) = if take_us { (self.us, self.us_text) } else { (self.si, self.si_text) };
+                (
+                    v,
+                    format!(
+                        "{text}, the more conservative of {} and {} (design.code_values not stated)",
+                        self.us_text, self.si_text
+                    ),
+                )
+            }
+        };
+        (Quantity::new(v, Kind::Length), words)
     }
+}
+
+/// UG-16(b): the general minimum thickness of shells and heads, exclusive of
+/// corrosion allowance.
+pub const UG16_GENERAL: PairedValue =
+    PairedValue { us_text: "1/16 in", us: INCH / 16.0, si_text: "1.5 mm", si: 1.5e-3 };
+
+/// UG-16(b)(4): shells and heads in compressed air, steam and water service
+/// made of the carbon and low-alloy steels of Part UCS (from memory of the
+/// paragraph: 3/32 in, 2.5 mm, exclusive of corrosion allowance).
+pub const UG16_AIR_STEAM_WATER: PairedValue =
+    PairedValue { us_text: "3/32 in", us: 3.0 * INCH / 32.0, si_text: "2.5 mm", si: 2.5e-3 };
+
+/// Records the UG-16(b) minimum thickness `t_f` of a part of `material`.
+pub fn ug16_floor(s: &mut Sheet, design: &Design, material: &crate::model::Material) -> Quantity {
+    let service = design.conditions.service;
+    let part = material.part.as_deref();
+    // A material whose part is not stated may be a carbon steel: in air,
+    // steam or water service the higher floor is then taken.
+    let (paired, clause, why) = if service.is_air_steam_or_water() && part.is_none_or(|p| p == "UCS") {
+        let why = match part {
+            Some(_) => format!("{} service, Part UCS material", service.name()),
+            None => format!("{} service, material part not stated (taken as Part UCS)", service.name()),
+        };
+        (UG16_AIR_STEAM_WATER, "UG-16(b)(4)", why)
+    } else {
+        let why = match (service, part) {
+            (crate::model::Service::NotStated, _) => {
+                "service not stated (design.service); UG-16(b)(4) asks for more in compressed air, steam or water \
+                 service with Part UCS materials"
+                    .to_string()
+            }
+            (sv, Some(p)) if sv.is_air_steam_or_water() => format!("{} service, Part {p} material", sv.name()),
+            (sv, _) => format!("{} service", sv.name()),
+        };
+        (UG16_GENERAL, "UG-16(b)", why)
+    };
+    let (q, words) = paired.choose(design.conditions.code_values, true);
+    s.record(
+        "t_f",
+        &format!("minimum thickness exclusive of corrosion allowance: {why}"),
+        clause,
+        &format!("tf = {words}"),
+        q,
+    )
 }
 
 fn len(v: f64) -> Quantity {
@@ -174,7 +249,7 @@ pub fn evaluate_component(design: &Design, c: &Component) -> Result<ComponentRes
         "thinning allowance (none: not a formed head)"
     };
     s.input("t_th", thinning_words, c.thinning_allowance);
-    s.input("t_f", "minimum thickness exclusive of corrosion allowance", ug16_floor(u));
+    ug16_floor(&mut s, design, material);
 
     // Corroded geometry and required thickness.
     bind_diameter(&mut s, c, Condition::HotCorroded)?;
@@ -374,7 +449,9 @@ fn component_mawp(s: &mut Sheet, c: &Component, condition: Condition) -> Result<
         // positive MAWP; only an outside-diameter form whose denominator
         // has gone negative (a wall near the outside radius) does not.
         let why = match s.get("t") {
-            Some(t) if t.value > 0.0 => "the thickness is too large for the formulas (it approaches the outside radius)",
+            Some(t) if t.value > 0.0 => {
+                "the thickness is too large for the formulas (it approaches the outside radius)"
+            }
             _ => "the thickness available is not positive, so it is too small for the formulas",
         };
         return Err(CalcError::OutOfRange {

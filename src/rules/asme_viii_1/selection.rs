@@ -16,13 +16,14 @@ use crate::units::{Kind, Quantity, UnitSystem, INCH};
 /// The pipe under-tolerance of UG-16(d) when none is stated.
 pub const PIPE_UNDERTOLERANCE: f64 = 0.125;
 
-/// The fixed part of the UG-16(c) plate allowance, in the value natural to
-/// the report units: 0.3 mm, or 0.01 in.
-pub fn ug16c_allowance(units: UnitSystem) -> Quantity {
-    match units {
-        UnitSystem::Si => Quantity::mm(0.3),
-        UnitSystem::Us => Quantity::new(0.01 * INCH, Kind::Length),
-    }
+/// The fixed part of the UG-16(c) plate allowance: 0.01 in or 0.3 mm.
+pub const UG16C_ALLOWANCE: super::PairedValue =
+    super::PairedValue { us_text: "0.01 in", us: 0.01 * INCH, si_text: "0.3 mm", si: 0.3e-3 };
+
+/// The fixed part of the UG-16(c) allowance for the case's code values (the
+/// smaller of the two when not stated), with words saying which was taken.
+pub fn ug16c_allowance(code_values: Option<UnitSystem>) -> (Quantity, String) {
+    UG16C_ALLOWANCE.choose(code_values, false)
 }
 
 /// The nominal thickness the MAWP is computed with.
@@ -38,12 +39,12 @@ pub struct Nominal {
 
 /// The amount deducted from a nominal thickness `t` (SI), by the same rule as
 /// [`delivered`] records on the sheet; used to search the lists.
-pub fn deduction(c: &Component, units: UnitSystem, t: f64) -> f64 {
+pub fn deduction(c: &Component, code_values: Option<UnitSystem>, t: f64) -> f64 {
     match (c.product_form, c.mill_undertolerance) {
         (ProductForm::Forging, _) | (ProductForm::Plate, None) => 0.0,
         (ProductForm::Plate, Some(u)) => {
             let a = u.amount(t);
-            let lim = ug16c_allowance(units).value.min(0.06 * t);
+            let lim = ug16c_allowance(code_values).0.value.min(0.06 * t);
             if a <= lim * (1.0 + 1e-12) {
                 0.0
             } else {
@@ -57,7 +58,7 @@ pub fn deduction(c: &Component, units: UnitSystem, t: f64) -> f64 {
 
 /// Records the mill under-tolerance for the `t_n` bound on the sheet and
 /// returns the delivered thickness `t_d`, or `None` when nothing is deducted.
-pub fn delivered(s: &mut Sheet, c: &Component) -> Result<Option<Quantity>, CalcError> {
+pub fn delivered(s: &mut Sheet, c: &Component, code_values: Option<UnitSystem>) -> Result<Option<Quantity>, CalcError> {
     use super::formulas as f;
     let units = s.units();
     match (c.product_form, c.mill_undertolerance) {
@@ -74,7 +75,8 @@ pub fn delivered(s: &mut Sheet, c: &Component) -> Result<Option<Quantity>, CalcE
                     s.step(&f::PLATE_UNDERTOL_FRACTION, "stated mill under-tolerance of the plate")?
                 }
             };
-            s.input("u_c", "fixed part of the UG-16(c) allowance", ug16c_allowance(units));
+            let (u_c, words) = ug16c_allowance(code_values);
+            s.record("u_c", "fixed part of the UG-16(c) allowance", "UG-16(c)", &format!("uc = {words}"), u_c);
             let lim = s.step(
                 &f::PLATE_UNDERTOL_LIMIT,
                 "under-tolerance that needs no allowance: the smaller of u_c and 6 % of the ordered thickness",
@@ -151,7 +153,7 @@ pub fn nominal(s: &mut Sheet, design: &Design, c: &Component, minimum: Quantity)
     let units = s.units();
     if let Some(t) = c.nominal_thickness {
         s.input("t_n", "nominal thickness", t);
-        let d = delivered(s, c)?;
+        let d = delivered(s, c, design.conditions.code_values)?;
         match d {
             None => s.check_at_least(
                 "nominal thickness covers the minimum thickness",
@@ -171,7 +173,7 @@ pub fn nominal(s: &mut Sheet, design: &Design, c: &Component, minimum: Quantity)
         return Ok(Nominal { thickness: t, deducts: d.is_some(), selected: None });
     }
     let (list, list_name) = candidates(design, c);
-    let found = search(&list, minimum.value, &|t| deduction(c, units, t));
+    let found = search(&list, minimum.value, &|t| deduction(c, design.conditions.code_values, t));
     let chosen = found.selected.or(found.thinner);
     let Some(chosen) = chosen else {
         return Err(CalcError::OutOfRange { component: c.id.clone(), message: "the thickness list is empty".into() });
@@ -179,7 +181,7 @@ pub fn nominal(s: &mut Sheet, design: &Design, c: &Component, minimum: Quantity)
     if let (Some(_), Some(j)) = (found.selected, found.thinner) {
         let thinner = &list[j];
         s.input("t_n", &format!("candidate {}: the next thinner in the {list_name}", thinner.label), thinner.thickness);
-        let td = delivered(s, c)?.unwrap_or(thinner.thickness);
+        let td = delivered(s, c, design.conditions.code_values)?.unwrap_or(thinner.thickness);
         s.record(
             "t_d",
             &format!("{} is rejected: its delivered thickness is below the minimum thickness", thinner.label),
@@ -198,7 +200,7 @@ pub fn nominal(s: &mut Sheet, design: &Design, c: &Component, minimum: Quantity)
         format!("no thickness in the {list_name} covers the minimum thickness; the thickest, {}, is shown", pick.label)
     };
     let t = s.input("t_n", &words, pick.thickness);
-    let d = delivered(s, c)?;
+    let d = delivered(s, c, design.conditions.code_values)?;
     s.check_at_least(
         "selected nominal thickness covers the minimum thickness",
         "UG-16, UG-25, UG-27/UG-32",

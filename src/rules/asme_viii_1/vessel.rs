@@ -81,6 +81,19 @@ pub fn evaluate(design: &Design, components: &[ComponentResult]) -> Result<Vesse
         &format!("min({})", ratios.join("; ")),
         Quantity::new(ratio, Kind::Dimensionless),
     );
+    // UG-99(b) takes the ratio as it is, so a material weaker at the test
+    // temperature than at the design temperature lowers the test pressure
+    // below 1.3 times the MAWP. That is stated as a failed check, never
+    // passed over, so that the test temperature and stresses are confirmed.
+    s.check_at_least(
+        "lowest stress ratio at least 1 (test pressure not below 1.3 × MAWP)",
+        "UG-99(b)",
+        Quantity::new(1.0, Kind::Dimensionless),
+        Quantity::new(ratio, Kind::Dimensionless),
+        "the allowable stress at the test temperature is below that at the design temperature, so the \
+         UG-99(b) test pressure falls below 1.3 × MAWP; confirm the test temperature and both stresses, or test \
+         at a temperature where the ratio is at least 1",
+    );
     let hydro = s.step(&f::HYDROTEST, "minimum hydrostatic test pressure at the top")?;
     let pneu = s.step(&f::PNEUMATIC, "minimum pneumatic test pressure at the top")?;
     let totals = totals(&mut s, design, components)?;

@@ -189,8 +189,29 @@ pub fn bind_diameter(s: &mut Sheet, c: &Component, condition: Condition) -> Resu
     Ok(())
 }
 
-/// Evaluates one component.
-pub fn evaluate_component(design: &Design, c: &Component) -> Result<ComponentResult, CalcError> {
+/// The first half of a component's sheet: loads, allowances, corroded
+/// geometry, required and minimum thickness. The component evaluation and the
+/// head study both start here, so a head is sized by one piece of code.
+pub struct PressureThickness<'a> {
+    /// The sheet so far.
+    pub sheet: Sheet,
+    /// Limits of applicability stated in words.
+    pub limits: Vec<String>,
+    /// The component's material.
+    pub material: &'a crate::model::Material,
+    /// Design pressure at the component.
+    pub pressure: Quantity,
+    /// Static head at the component.
+    pub static_head: Quantity,
+    /// Required thickness for pressure (`None` when the rules do not apply).
+    pub required: Option<Quantity>,
+    /// Minimum thickness with floor and allowances (`None` likewise).
+    pub minimum: Option<Quantity>,
+}
+
+/// Records loads, allowances, corroded geometry and the required and minimum
+/// thickness of `c` on a new sheet.
+pub fn pressure_thickness<'a>(design: &'a Design, c: &Component) -> Result<PressureThickness<'a>, CalcError> {
     let u = design.units;
     let mut s = Sheet::new(&c.id, u);
     let material = design.material(c).ok_or_else(|| CalcError::OutOfRange {
@@ -198,7 +219,6 @@ pub fn evaluate_component(design: &Design, c: &Component) -> Result<ComponentRes
         message: format!("material `{}` is not defined", c.material),
     })?;
     let mut limits = Vec::new();
-
     // Loads.
     s.input("P_d", "design pressure at the vessel top", design.conditions.pressure);
     let static_head = match (design.conditions.liquid_density, c.liquid_head.value > 0.0) {
@@ -267,10 +287,15 @@ pub fn evaluate_component(design: &Design, c: &Component) -> Result<ComponentRes
         }
     };
     let Some(required) = required else {
-        // The rules do not apply (for example a cone steeper than 30°): no
-        // thickness or pressure is reported, and the failed applicability
-        // check already on the sheet says which rules are needed.
-        return Ok(finish(c, s, None, None, p, static_head, None, None, None, limits));
+        return Ok(PressureThickness {
+            sheet: s,
+            limits,
+            material,
+            pressure: p,
+            static_head,
+            required: None,
+            minimum: None,
+        });
     };
     if required.value <= 0.0 {
         return Err(CalcError::OutOfRange {
@@ -283,6 +308,28 @@ pub fn evaluate_component(design: &Design, c: &Component) -> Result<ComponentRes
         &f::MINIMUM_THICKNESS,
         "minimum thickness: the larger of the pressure thickness and the floor, plus corrosion and thinning allowances",
     )?;
+    Ok(PressureThickness {
+        sheet: s,
+        limits,
+        material,
+        pressure: p,
+        static_head,
+        required: Some(required),
+        minimum: Some(minimum),
+    })
+}
+
+/// Evaluates one component.
+pub fn evaluate_component(design: &Design, c: &Component) -> Result<ComponentResult, CalcError> {
+    let u = design.units;
+    let PressureThickness { sheet: mut s, limits, material, pressure: p, static_head, required, minimum } =
+        pressure_thickness(design, c)?;
+    let (Some(required), Some(minimum)) = (required, minimum) else {
+        // The rules do not apply (for example a cone steeper than 30°): no
+        // thickness or pressure is reported, and the failed applicability
+        // check already on the sheet says which rules are needed.
+        return Ok(finish(c, s, None, None, p, static_head, None, None, None, limits));
+    };
 
     // Nominal thickness (given, or selected from the commercial list) and its adequacy.
     let chosen = selection::nominal(&mut s, design, c, minimum)?;
